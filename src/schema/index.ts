@@ -1,0 +1,1 @@
+export { HealthResponse, SiteSummary } from './health';
