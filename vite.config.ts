@@ -76,6 +76,8 @@ export default defineConfig({
     }),
   ],
   test: {
+    // Read by test/support/summary.mjs for CI's closing line; absolute because Vite's root is src/.
+    outputFile: { json: resolve(projectDir, 'test-results.json') },
     projects: [
       {
         root: projectDir,

@@ -1,0 +1,44 @@
+import { Hono } from 'hono';
+import type { Database } from './db';
+import { type ApiErrorBody, errorHandler, type Logger, logToStderr } from './errors';
+import { healthRoutes } from './routes/health';
+import { siteRoutes } from './routes/site';
+import { appShellOrNotFound, isApiPath, staticFiles } from './routes/static';
+import { securityHeaders } from './security';
+
+export interface AppDeps {
+  db: Database;
+  /** The Vite build output: index.html, sw.js, app.webmanifest, icons/, assets/. */
+  distDir: string;
+  version: string;
+  siteName: string;
+  log?: Logger;
+}
+
+/** Builds the HTTP app without listening; `main.ts` serves it, tests call `app.request()`. */
+export function createApp(deps: AppDeps): Hono {
+  const app = new Hono();
+
+  app.use('*', securityHeaders());
+  app.use('/api/*', async (c, next) => {
+    await next();
+    c.res.headers.set('Cache-Control', 'no-store');
+  });
+
+  // API routes, one file per resource, all under /api/v1.
+  app.route('/api/v1', healthRoutes(deps));
+  app.route('/api/v1', siteRoutes(deps));
+
+  app.use('*', staticFiles(deps.distDir));
+
+  // Fallbacks live in notFound rather than catch-all routes, so routes registered later still match.
+  app.notFound((c) => {
+    if (isApiPath(c.req.path)) {
+      const body: ApiErrorBody = { error: { code: 'E_NOT_FOUND', message: `No API endpoint at ${c.req.path}` } };
+      return c.json(body, 404);
+    }
+    return appShellOrNotFound(c, deps.distDir);
+  });
+  app.onError(errorHandler(deps.log ?? logToStderr));
+  return app;
+}
