@@ -12,6 +12,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { readServerConfig } from '../../src/server/config';
 import { type RunningServer, startServer } from '../../src/server/main';
 import { assertChromiumInstalled, type FreshBrowser, launchFreshChromium } from '../support/chromium';
+import { contrastRatio } from '../support/contrast';
 
 const root = resolve(import.meta.dirname, '../..');
 const builtDist = join(root, 'dist');
@@ -123,16 +124,28 @@ describe('app shell in Chromium', () => {
   it('should write screenshots of the sunlight and night themes', async () => {
     mkdirSync(screenshotDir, { recursive: true });
     const themeSwitch = page.getByTestId('theme-switch');
-    // Auto → Sunlight
+    const background = () => page.evaluate(() => getComputedStyle(document.body).backgroundColor);
+    const textColour = () => page.evaluate(() => getComputedStyle(document.body).color);
+    // Auto follows the tablet's own setting.
+    await page.emulateMedia({ colorScheme: 'dark' });
+    expect(await background()).toBe('rgb(11, 17, 22)');
+    await page.emulateMedia({ colorScheme: 'light' });
+    expect(await background()).toBe('rgb(255, 255, 255)');
+    // Auto → Sunlight, which stays white even on a tablet set to dark.
     await themeSwitch.click();
     expect(await page.evaluate(() => document.documentElement.dataset.theme)).toBe('sun');
+    await page.emulateMedia({ colorScheme: 'dark' });
+    expect(await background()).toBe('rgb(255, 255, 255)');
+    // Sunlight readability: WCAG 2.2 SC 1.4.6 (enhanced contrast) asks at least 7:1 for body text.
+    await expect.poll(async () => contrastRatio(await textColour(), await background())).toBeGreaterThanOrEqual(7);
     const sunFile = join(screenshotDir, 'shell-sun.png');
     await page.screenshot({ path: sunFile, fullPage: true });
     // Sunlight → Night
     await themeSwitch.click();
     expect(await page.evaluate(() => document.documentElement.dataset.theme)).toBe('night');
-    const nightBackground = await page.evaluate(() => getComputedStyle(document.body).backgroundColor);
-    expect(nightBackground).toBe('rgb(11, 17, 22)');
+    await page.emulateMedia({ colorScheme: 'light' });
+    expect(await background()).toBe('rgb(11, 17, 22)');
+    expect(contrastRatio(await textColour(), await background())).toBeGreaterThanOrEqual(7);
     const nightFile = join(screenshotDir, 'shell-night.png');
     await page.screenshot({ path: nightFile, fullPage: true });
     // PNG signature; source: PNG specification (ISO/IEC 15948), section 5.2
