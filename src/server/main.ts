@@ -127,7 +127,31 @@ function oneLine(err: unknown): string {
 }
 
 async function main(): Promise<void> {
-  let running: RunningServer;
+  let running: RunningServer | undefined;
+  let stopSignal: NodeJS.Signals | undefined;
+
+  const stop = (signal: NodeJS.Signals): void => {
+    stopSignal = signal;
+    // A signal during start-up is acted on once the server is up (below).
+    if (!running) return;
+    process.stdout.write(`${signal} received, stopping…\n`);
+    // A second signal means "now": skip waiting for open requests.
+    process.once(signal, () => process.exit(1));
+    running.close().then(
+      () => {
+        process.stdout.write('Stopped.\n');
+        process.exit(0);
+      },
+      (err: unknown) => {
+        process.stderr.write(`Crankhouse did not stop cleanly: ${oneLine(err)}\n`);
+        process.exit(1);
+      },
+    );
+  };
+  // Registered before anything is printed: whoever reads "running at" may signal at once.
+  process.once('SIGINT', stop);
+  process.once('SIGTERM', stop);
+
   let config: ServerConfig;
   let version: string;
   try {
@@ -144,24 +168,7 @@ async function main(): Promise<void> {
   if (!existsSync(join(config.distDir, 'index.html'))) {
     process.stdout.write(`Warning: ${join(config.distDir, 'index.html')} is missing; run npm run build\n`);
   }
-
-  const stop = (signal: NodeJS.Signals): void => {
-    process.stdout.write(`${signal} received, stopping…\n`);
-    // A second signal means "now": skip waiting for open requests.
-    process.once(signal, () => process.exit(1));
-    running.close().then(
-      () => {
-        process.stdout.write('Stopped.\n');
-        process.exit(0);
-      },
-      (err: unknown) => {
-        process.stderr.write(`Crankhouse did not stop cleanly: ${oneLine(err)}\n`);
-        process.exit(1);
-      },
-    );
-  };
-  process.once('SIGINT', stop);
-  process.once('SIGTERM', stop);
+  if (stopSignal) stop(stopSignal);
 }
 
 function isEntryPoint(): boolean {
