@@ -199,6 +199,7 @@ describe('app shell in Chromium', () => {
     await page.getByTestId('device-facts').waitFor({ state: 'visible' });
     expect(await page.getByTestId('device-facts').textContent()).toContain(version);
     expect(failed).toEqual([]);
+    await page.screenshot({ path: join(screenshotDir, 'device-offline.png'), fullPage: true });
   });
 
   it('should run the whole visit without a CSP violation or an uncaught error', () => {

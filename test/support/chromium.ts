@@ -19,10 +19,10 @@ export const CHROMIUM_ARGS = [
   '--disable-sync',
 ];
 
-export function assertChromiumInstalled(): void {
-  if (!existsSync(CHROMIUM_PATH)) {
+export function assertChromiumInstalled(path: string = CHROMIUM_PATH): void {
+  if (!existsSync(path)) {
     throw new Error(
-      `Chromium was not found at ${CHROMIUM_PATH}. The browser tests need Debian's Chromium: ` +
+      `Chromium was not found at ${path}. The browser tests need Debian's Chromium: ` +
         `install it with "${CHROMIUM_INSTALL_HINT}" (or point CRANKHOUSE_CHROMIUM at another Chromium binary).`,
     );
   }
