@@ -5,9 +5,13 @@
 import { mkdirSync, writeFileSync } from 'node:fs';
 import { join, resolve } from 'node:path';
 import { bundleSize } from './bundle-size';
+import { calcSpeed } from './calc-speed';
 import type { Bench, BenchRow } from './rows';
 
-const BENCHES: Array<[string, Bench]> = [['bundle', bundleSize]];
+const BENCHES: Array<[string, Bench]> = [
+  ['bundle', bundleSize],
+  ['calc', calcSpeed],
+];
 
 const rows: Array<BenchRow & { bench: string }> = [];
 for (const [name, bench] of BENCHES) {
