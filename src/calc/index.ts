@@ -4,6 +4,18 @@
  */
 export { barometricPressure, ELEVATION_MAX_M, ELEVATION_MIN_M } from './barometer';
 export {
+  assessBearingTemperature,
+  BEARING_LIMITS_DEFAULT,
+  type BearingClearanceInput,
+  type BearingClearanceResult,
+  type BearingLimits,
+  type BearingTemperatureAssessment,
+  type BearingTemperatureInput,
+  bearingClearance,
+  CLEARANCE_RULE_MAX,
+  CLEARANCE_RULE_MIN,
+} from './bearings';
+export {
   type ActiveEnds,
   CLEARANCE_MAX,
   CLEARANCE_MIN,
@@ -73,6 +85,21 @@ export {
   recycleFraction,
 } from './recycle';
 export {
+  RIDER_BAND_ALARM_FRACTION,
+  RIDER_BAND_WATCH_FRACTION,
+  type RiderBandInput,
+  type RiderBandResult,
+  riderBandWear,
+} from './rider-band';
+export {
+  REVERSAL_CRITERION_DEFAULT,
+  type ReversalCriterion,
+  ROD_LOAD_WATCH_FRACTION,
+  type RodLoadInput,
+  type RodLoadResult,
+  rodLoad,
+} from './rod-load';
+export {
   type EndPerformance,
   POWER_CURVE_POINTS,
   type PowerCurve,
@@ -84,6 +111,12 @@ export {
 } from './stage';
 export { STATUS_ORDER, type Status, worstStatus } from './status';
 export {
+  type TimeToLimitInput,
+  type TimeToLimitResult,
+  TREND_MIN_R_SQUARED,
+  timeToLimit,
+} from './trend';
+export {
   deltaFromSI,
   deltaToSI,
   fromSI,
@@ -94,3 +127,18 @@ export {
   type UnitInfo,
   unitInfo,
 } from './units';
+export {
+  assessValveCovers,
+  VALVE_COVER_THRESHOLDS,
+  type ValveCoverAssessment,
+  type ValveCoverFinding,
+  type ValveCoverInput,
+  type ValveCoverReading,
+  type ValveCoverThresholds,
+} from './valve-covers';
+export {
+  type ValveChange,
+  type ValveLifeInput,
+  type ValveLifeResult,
+  valveLife,
+} from './valve-life';

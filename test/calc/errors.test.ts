@@ -1,24 +1,31 @@
 /**
- * Every error code the thermodynamic calculations own, each provoked once through the public API, with the field
- * the error must name. E_TIME_ORDER belongs to the mechanical calculations (valve life and trends).
+ * Every error code of the calculation room, each provoked once through the public API, with the field the error
+ * must name; every warning code, each raised once; and the promise that nothing returns NaN or Infinity.
  */
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import {
+  assessBearingTemperature,
   assessDischargeTemperature,
+  assessValveCovers,
   barometricPressure,
+  bearingClearance,
   CALC_ERROR_CODES,
+  CALC_WARNING_CODES,
   CalcError,
   type CalcErrorCode,
+  type CalcWarningCode,
   dischargeTemperature,
   firstStageRecycle,
   gasProperties,
   isentropicPower,
   pistonDisplacement,
   powerCurve,
+  rodLoad,
   stagePerformance,
   standardFlow,
   toSI,
+  valveLife,
   volumetricEfficiency,
 } from '../../src/calc';
 import { expectCalcError } from './helpers';
@@ -93,6 +100,11 @@ const CASES: Array<[CalcErrorCode, string, () => unknown]> = [
         veMethod: 'theoretical',
       }),
   ],
+  [
+    'E_TIME_ORDER',
+    'now',
+    () => valveLife({ changes: [{ at: '2026-05-01T00:00:00Z', planned: true }], now: '2026-04-01T00:00:00Z' }),
+  ],
 ];
 
 describe('CalcError codes', () => {
@@ -102,9 +114,38 @@ describe('CalcError codes', () => {
     expect(error.message).not.toMatch(/undefined/);
   });
 
-  it('should cover every code of the vocabulary except the mechanical E_TIME_ORDER', () => {
+  it('should cover every code of the vocabulary', () => {
     const covered = new Set(CASES.map(([code]) => code));
-    expect(CALC_ERROR_CODES.filter((code) => !covered.has(code))).toEqual(['E_TIME_ORDER']);
+    expect(CALC_ERROR_CODES.filter((code) => !covered.has(code))).toEqual([]);
+  });
+});
+
+describe('warning codes', () => {
+  const WARNINGS: Array<[CalcWarningCode, () => { warnings: readonly string[] }]> = [
+    [
+      'W_REAL_GAS',
+      () =>
+        dischargeTemperature({ suctionTemperatureK: 300, suctionPressurePa: 60e5, dischargePressurePa: 150e5, k: 1.3 }),
+    ],
+    ['W_POLY_EXTRAPOLATED', () => gasProperties({ methane: 0.98, isopentane: 0.02 }, 270)],
+    [
+      'W_RATIO_HIGH',
+      () =>
+        dischargeTemperature({ suctionTemperatureK: 300, suctionPressurePa: 1e5, dischargePressurePa: 11e5, k: 1.4 }),
+    ],
+    [
+      'W_SENSOR_SUSPECT',
+      () => assessBearingTemperature({ temperatureK: 330, oilSupplyK: 340, at: '2026-01-01T00:00:00Z', limits: {} }),
+    ],
+    ['W_CHECK_MEASUREMENT', () => bearingClearance({ measuredM: 0.5e-3, journalDiameterM: 0.2 })],
+  ];
+
+  it.each(WARNINGS)('%s is raised where the reference says', (code, run) => {
+    expect(run().warnings).toContain(code);
+  });
+
+  it('should cover every warning code', () => {
+    expect(CALC_WARNING_CODES.filter((code) => !WARNINGS.some(([covered]) => covered === code))).toEqual([]);
   });
 });
 
@@ -178,6 +219,68 @@ describe('no NaN or Infinity ever (property)', () => {
         );
       }),
       { numRuns: 3000 },
+    );
+  });
+
+  it('should give finite results or a CalcError for the mechanical checks', () => {
+    fc.assert(
+      fc.property(wide, wide, wide, wide, (a, b, c, d) => {
+        return (
+          finiteOrCalcError(() =>
+            assessValveCovers({
+              covers: [
+                { id: 'A', end: 'head', service: 'suction', temperatureK: a },
+                { id: 'B', end: 'crank', service: 'suction', temperatureK: b },
+              ],
+              suctionGasK: c,
+            }),
+          ) &&
+          finiteOrCalcError(() =>
+            assessBearingTemperature({
+              temperatureK: a,
+              oilSupplyK: b,
+              peersK: [c],
+              previous: { temperatureK: d, at: '2026-01-01T00:00:00Z' },
+              at: '2026-01-01T06:00:00Z',
+              limits: {},
+            }),
+          ) &&
+          finiteOrCalcError(() => bearingClearance({ measuredM: a, journalDiameterM: b, specMinM: c, specMaxM: d }))
+        );
+      }),
+      { numRuns: 3000 },
+    );
+  });
+
+  it('should give a finite rod load or a CalcError over random inputs', () => {
+    fc.assert(
+      fc.property(
+        wide,
+        wide,
+        wide,
+        wide,
+        wide,
+        (speedRpm, dischargePressurePa, reciprocatingMassKg, exponent, headClearance) =>
+          finiteOrCalcError(() =>
+            rodLoad({
+              boreM: 0.25,
+              rodM: 0.06,
+              strokeM: 0.14,
+              connectingRodM: 0.35,
+              speedRpm,
+              suctionPressurePa: 20e5,
+              dischargePressurePa,
+              distancePiecePressurePa: 101_325,
+              headClearance,
+              crankClearance: 0.19,
+              headActive: true,
+              crankActive: true,
+              exponent,
+              reciprocatingMassKg,
+            }),
+          ),
+      ),
+      { numRuns: 150 },
     );
   });
 
