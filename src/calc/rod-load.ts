@@ -108,39 +108,6 @@ function travel(m: Machine, thetaRad: number): number {
   return m.radius * (1 - Math.cos(thetaRad)) + m.length * (1 - Math.sqrt(1 - m.lambda ** 2 * s * s));
 }
 
-/** Piston acceleration toward the crank, m/s² (exact slider-crank). */
-function acceleration(m: Machine, thetaRad: number): number {
-  const s2 = Math.sin(thetaRad) ** 2;
-  const l2 = m.lambda ** 2;
-  return (
-    m.radius *
-    m.omega ** 2 *
-    (Math.cos(thetaRad) + (m.lambda * (Math.cos(2 * thetaRad) + l2 * s2 * s2)) / (1 - l2 * s2) ** 1.5)
-  );
-}
-
-/** Cylinder pressures at a crank angle in [0, 360), absolute Pa. */
-function pressures(m: Machine, deg: number): { head: number; crank: number } {
-  const x = travel(m, deg * DEG);
-  const vHead = m.areaHead * (m.cHead * m.stroke + x);
-  const vCrank = m.areaCrank * (m.cCrank * m.stroke + (m.stroke - x));
-  const { vHeadClear, vHeadMax, vCrankClear, vCrankMax } = m;
-  const outStroke = deg <= 180; // piston moving toward the crank
-  let head = m.ps;
-  let crank = m.ps;
-  if (m.headActive) {
-    head = outStroke
-      ? Math.max(m.ps, m.pd * (vHeadClear / vHead) ** m.n)
-      : Math.min(m.pd, m.ps * (vHeadMax / vHead) ** m.n);
-  }
-  if (m.crankActive) {
-    crank = outStroke
-      ? Math.min(m.pd, m.ps * (vCrankMax / vCrank) ** m.n)
-      : Math.max(m.ps, m.pd * (vCrankClear / vCrank) ** m.n);
-  }
-  return { head, crank };
-}
-
 /** The crank angle in [0°, 180°] where the piston has travelled x from head-end dead centre. */
 function angleAtTravel(m: Machine, x: number): number {
   let low = 0;
@@ -175,49 +142,103 @@ function valveEvents(m: Machine): RodLoadResult['valveEventsDeg'] {
   return events;
 }
 
-interface Sample {
-  deg: number;
+/** Where in the revolution each end changes from a polytropic process to an open valve (360 = never). */
+interface Phases {
+  headSuction: number;
+  headDischarge: number;
+  crankDischarge: number;
+  crankSuction: number;
+}
+
+interface Point {
   head: number;
   crank: number;
   gas: number;
   inertia: number;
-  combined: number;
 }
 
-function sample(m: Machine, deg: number): Sample {
-  const { head, crank } = pressures(m, deg);
-  const gas = (head - m.pdp) * m.areaHead - (crank - m.pdp) * m.areaCrank;
-  const inertia = -m.mass * acceleration(m, deg * DEG);
-  return { deg, head, crank, gas, inertia, combined: gas + inertia };
+/**
+ * Pressures and loads at one crank angle in [0°, 360°). The valve events tell which phase each end is in, so the
+ * power law is evaluated only while a valve is shut. One square root serves both travel and acceleration.
+ */
+function evaluateAt(m: Machine, phases: Phases, deg: number, out: Point): void {
+  const theta = deg * DEG;
+  const sin = Math.sin(theta);
+  const cos = Math.cos(theta);
+  const l2s2 = m.lambda * m.lambda * sin * sin;
+  const root = Math.sqrt(1 - l2s2);
+  const x = m.radius * (1 - cos) + m.length * (1 - root);
+  // Exact slider-crank acceleration toward the crank; cos 2θ = 1 − 2 sin²θ.
+  const acceleration =
+    m.radius * m.omega * m.omega * (cos + (m.lambda * (1 - 2 * sin * sin + l2s2 * sin * sin)) / (root * root * root));
+  const outStroke = deg <= 180;
+  let head = m.ps;
+  let crank = m.ps;
+  if (m.headActive) {
+    if (outStroke)
+      head =
+        deg < phases.headSuction
+          ? Math.max(m.ps, m.pd * (m.vHeadClear / (m.areaHead * (m.cHead * m.stroke + x))) ** m.n)
+          : m.ps;
+    else
+      head =
+        deg < phases.headDischarge
+          ? Math.min(m.pd, m.ps * (m.vHeadMax / (m.areaHead * (m.cHead * m.stroke + x))) ** m.n)
+          : m.pd;
+  }
+  if (m.crankActive) {
+    const vCrank = m.areaCrank * (m.cCrank * m.stroke + (m.stroke - x));
+    if (outStroke) crank = deg < phases.crankDischarge ? Math.min(m.pd, m.ps * (m.vCrankMax / vCrank) ** m.n) : m.pd;
+    else crank = deg < phases.crankSuction ? Math.max(m.ps, m.pd * (m.vCrankClear / vCrank) ** m.n) : m.ps;
+  }
+  out.head = head;
+  out.crank = crank;
+  out.gas = (head - m.pdp) * m.areaHead - (crank - m.pdp) * m.areaCrank;
+  out.inertia = -m.mass * acceleration;
+}
+
+function phasesOf(events: RodLoadResult['valveEventsDeg']): Phases {
+  // A valve that never opens leaves its end on the power law for the whole half turn; the min/max clamps in
+  // evaluateAt still hold the pressure between suction and discharge.
+  return {
+    headSuction: events.headSuction ?? 181,
+    headDischarge: events.headDischarge ?? 361,
+    crankDischarge: events.crankDischarge ?? 181,
+    crankSuction: events.crankSuction ?? 361,
+  };
 }
 
 /**
  * Longest contiguous arc (degrees, wrapping through 0°) where `sign·load > 0`, with the ends located by linear
- * interpolation between samples. Samples are sorted by angle over [0°, 360°).
+ * interpolation between samples sorted by angle over [0°, 360°).
  */
-function longestArc(samples: Sample[], sign: 1 | -1): number {
-  const count = samples.length;
-  const inside = (s: Sample) => sign * s.combined > 0;
-  if (samples.every(inside)) return 360;
-  if (!samples.some(inside)) return 0;
+function longestArc(deg: Float64Array, load: Float64Array, sign: 1 | -1): number {
+  const count = deg.length;
+  let insideCount = 0;
+  for (let k = 0; k < count; k += 1) if (sign * (load[k] as number) > 0) insideCount += 1;
+  if (insideCount === count) return 360;
+  if (insideCount === 0) return 0;
   // Walk once round from a sample that is outside, so that no arc is split by the wrap through 0°.
-  const start = samples.findIndex((s) => !inside(s));
-  const crossing = (a: Sample, aAngle: number, b: Sample, bAngle: number) => {
-    const t = a.combined / (a.combined - b.combined);
+  let start = 0;
+  while (sign * (load[start] as number) > 0) start += 1;
+  const crossing = (aAngle: number, aLoad: number, bAngle: number, bLoad: number) => {
+    const t = aLoad / (aLoad - bLoad);
     return aAngle + (bAngle - aAngle) * (Number.isFinite(t) ? Math.min(Math.max(t, 0), 1) : 0);
   };
   let longest = 0;
   let arcStart: number | null = null;
   for (let step = 1; step <= count; step += 1) {
-    const previous = samples[(start + step - 1) % count] as Sample;
-    const current = samples[(start + step) % count] as Sample;
-    const previousAngle = previous.deg + (start + step - 1 >= count ? 360 : 0);
-    const currentAngle = current.deg + (start + step >= count ? 360 : 0);
-    const wasInside = inside(previous);
-    const isInside = inside(current);
-    if (!wasInside && isInside) arcStart = crossing(previous, previousAngle, current, currentAngle);
+    const a = (start + step - 1) % count;
+    const b = (start + step) % count;
+    const aAngle = (deg[a] as number) + (start + step - 1 >= count ? 360 : 0);
+    const bAngle = (deg[b] as number) + (start + step >= count ? 360 : 0);
+    const aLoad = load[a] as number;
+    const bLoad = load[b] as number;
+    const wasInside = sign * aLoad > 0;
+    const isInside = sign * bLoad > 0;
+    if (!wasInside && isInside) arcStart = crossing(aAngle, aLoad, bAngle, bLoad);
     if (wasInside && !isInside && arcStart !== null) {
-      longest = Math.max(longest, crossing(previous, previousAngle, current, currentAngle) - arcStart);
+      longest = Math.max(longest, crossing(aAngle, aLoad, bAngle, bLoad) - arcStart);
       arcStart = null;
     }
   }
@@ -321,32 +342,51 @@ export function rodLoad(i: RodLoadInput): RodLoadResult {
   const criterion = i.reversalCriterion ?? REVERSAL_CRITERION_DEFAULT;
   const events = valveEvents(m);
   const steps = Math.round(360 / ROD_LOAD_STEP_DEG);
-  const eventAngles = Object.values(events);
+  // The 0.1° grid with the valve events merged in, in order (the events are few, so no sort is needed).
+  const eventAngles = Object.values(events).sort((x, y) => x - y);
   const angles = new Float64Array(steps + eventAngles.length);
-  for (let index = 0; index < steps; index += 1) angles[index] = index * ROD_LOAD_STEP_DEG;
-  eventAngles.forEach((angle, index) => {
-    angles[steps + index] = angle;
-  });
-  angles.sort();
-  const samples: Sample[] = new Array(angles.length);
-  for (let index = 0; index < angles.length; index += 1) samples[index] = sample(m, angles[index] as number);
-
+  let next = 0;
+  let filled = 0;
+  for (let index = 0; index < steps; index += 1) {
+    const gridDeg = index * ROD_LOAD_STEP_DEG;
+    while (next < eventAngles.length && (eventAngles[next] as number) < gridDeg)
+      angles[filled++] = eventAngles[next++] as number;
+    angles[filled++] = gridDeg;
+  }
+  while (next < eventAngles.length) angles[filled++] = eventAngles[next++] as number;
+  const phases = phasesOf(events);
+  const combinedLoads = new Float64Array(angles.length);
+  const point: Point = { head: 0, crank: 0, gas: 0, inertia: 0 };
   let gasCompression = 0;
   let gasTension = 0;
-  let compression = { value: 0, deg: 0 };
-  let tension = { value: 0, deg: 0 };
-  for (const s of samples) {
-    gasCompression = Math.max(gasCompression, s.gas);
-    gasTension = Math.max(gasTension, -s.gas);
-    if (s.combined > compression.value) compression = { value: s.combined, deg: s.deg };
-    if (-s.combined > tension.value) tension = { value: -s.combined, deg: s.deg };
+  let compressionPeak = 0;
+  let compressionDeg = 0;
+  let tensionPeak = 0;
+  let tensionDeg = 0;
+  for (let index = 0; index < angles.length; index += 1) {
+    const deg = angles[index] as number;
+    evaluateAt(m, phases, deg, point);
+    const combined = point.gas + point.inertia;
+    combinedLoads[index] = combined;
+    if (point.gas > gasCompression) gasCompression = point.gas;
+    if (-point.gas > gasTension) gasTension = -point.gas;
+    if (combined > compressionPeak) {
+      compressionPeak = combined;
+      compressionDeg = deg;
+    }
+    if (-combined > tensionPeak) {
+      tensionPeak = -combined;
+      tensionDeg = deg;
+    }
   }
+  const compression = { value: compressionPeak, deg: compressionDeg };
+  const tension = { value: tensionPeak, deg: tensionDeg };
 
   const minority: 1 | -1 = tension.value <= compression.value ? -1 : 1;
   const majorityPeak = Math.max(compression.value, tension.value);
   const minorityPeak = Math.min(compression.value, tension.value);
   const reversesAtAll = compression.value > 0 && tension.value > 0;
-  const degrees = reversesAtAll ? longestArc(samples, minority) : 0;
+  const degrees = reversesAtAll ? longestArc(angles, combinedLoads, minority) : 0;
   const fraction = reversesAtAll && majorityPeak > 0 ? minorityPeak / majorityPeak : 0;
   const meetsCriterion = reversesAtAll && degrees >= criterion.minDegrees && fraction >= criterion.minFraction;
 
@@ -392,13 +432,13 @@ export function rodLoad(i: RodLoadInput): RodLoadResult {
     combinedN: [],
   };
   for (let deg = 0; deg < 360; deg += ROD_LOAD_CURVE_STEP_DEG) {
-    const s = sample(m, deg);
+    evaluateAt(m, phases, deg, point);
     curve.crankDeg.push(deg);
-    curve.headPressurePa.push(s.head);
-    curve.crankPressurePa.push(s.crank);
-    curve.gasN.push(s.gas);
-    curve.inertiaN.push(s.inertia);
-    curve.combinedN.push(s.combined);
+    curve.headPressurePa.push(point.head);
+    curve.crankPressurePa.push(point.crank);
+    curve.gasN.push(point.gas);
+    curve.inertiaN.push(point.inertia);
+    curve.combinedN.push(point.gas + point.inertia);
   }
 
   return {

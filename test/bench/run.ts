@@ -6,11 +6,13 @@ import { mkdirSync, writeFileSync } from 'node:fs';
 import { join, resolve } from 'node:path';
 import { bundleSize } from './bundle-size';
 import { calcSpeed } from './calc-speed';
+import { checksSpeed } from './checks-speed';
 import type { Bench, BenchRow } from './rows';
 
 const BENCHES: Array<[string, Bench]> = [
   ['bundle', bundleSize],
   ['calc', calcSpeed],
+  ['checks', checksSpeed],
 ];
 
 const rows: Array<BenchRow & { bench: string }> = [];

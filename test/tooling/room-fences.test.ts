@@ -25,6 +25,8 @@ const CASES: FenceCase[] = [
   { room: 'src/schema', specifier: 'idb', allowed: false },
   { room: 'src/checks', specifier: '../calc/index', allowed: true },
   { room: 'src/checks', specifier: '../store/db', allowed: false },
+  { room: 'src/demo', specifier: '../checks/index', allowed: true },
+  { room: 'src/demo', specifier: '../store/db', allowed: false },
   { room: 'src/store', specifier: 'idb', allowed: true },
   { room: 'src/sync', specifier: 'idb', allowed: false },
   { room: 'src/app', specifier: 'idb', allowed: false },
