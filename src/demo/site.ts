@@ -5,7 +5,7 @@
 import { toSI } from '../calc';
 import { type CheckPoint, SiteConfig } from '../schema';
 
-export const DEMO_SITE_NAME = 'Cedar Flats Compressor Station';
+export const DEMO_SITE_NAME = 'Cedar Flats Compressor Station (demo)';
 export const DEMO_ELEVATION_M = 900;
 
 /** Invented people, one per role; they sign in as their role name. */

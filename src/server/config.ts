@@ -11,6 +11,8 @@ export interface ServerConfig {
   dataDir: string;
   distDir: string;
   siteName: string;
+  /** Seed the invented demo site into an empty database (CRANKHOUSE_DEMO, default on). */
+  seedDemo: boolean;
   tls?: TlsFiles;
 }
 
@@ -93,6 +95,15 @@ function readTls(cert: string | undefined, key: string | undefined, cwd: string)
  * Reads the server settings from environment variables. Pure: it touches no files, so the caller
  * decides whether folders exist. Relative paths are resolved against `cwd`.
  */
+function readDemo(raw: string | undefined): boolean {
+  if (raw === undefined || raw === '1' || raw === 'true') return true;
+  if (raw === '0' || raw === 'false') return false;
+  throw new ConfigError(
+    'CRANKHOUSE_DEMO',
+    `"${raw}" is not understood; use 1 to seed the demo site on first start or 0 to start empty`,
+  );
+}
+
 export function readServerConfig(env: Record<string, string | undefined>, cwd: string): ServerConfig {
   if (!isAbsolute(cwd)) throw new TypeError(`cwd must be an absolute path, got "${cwd}"`);
   const tls = readTls(read(env, 'CRANKHOUSE_TLS_CERT'), read(env, 'CRANKHOUSE_TLS_KEY'), cwd);
@@ -102,6 +113,7 @@ export function readServerConfig(env: Record<string, string | undefined>, cwd: s
     dataDir: resolve(cwd, read(env, 'CRANKHOUSE_DATA') ?? 'data'),
     distDir: resolve(cwd, read(env, 'CRANKHOUSE_DIST') ?? 'dist'),
     siteName: readSiteName(read(env, 'CRANKHOUSE_SITE_NAME')),
+    seedDemo: readDemo(read(env, 'CRANKHOUSE_DEMO')),
     ...(tls ? { tls } : {}),
   };
 }

@@ -7,7 +7,8 @@ import { serve } from '@hono/node-server';
 import { createApp } from './app';
 import { readServerConfig, type ServerConfig } from './config';
 import { openDatabase } from './db';
-import type { Logger } from './errors';
+import { type Logger, logToStderr } from './errors';
+import { seedDemoSite } from './seed';
 
 /** How long shutdown waits for open requests before cutting their connections. */
 export const SHUTDOWN_GRACE_MS = 10_000;
@@ -59,6 +60,15 @@ export async function startServer(config: ServerConfig, opts: StartOptions = {})
   const version = opts.version ?? readPackageVersion();
   const tlsFiles = config.tls ? readTlsFiles(config.tls) : undefined;
   const db = openDatabase(config.dataDir, opts.migrationsDir ? { migrationsDir: opts.migrationsDir } : {});
+  if (config.seedDemo) {
+    try {
+      const seeded = seedDemoSite(db);
+      if (seeded.seeded) (opts.log ?? logToStderr)({ event: 'demo-seeded', records: seeded.records });
+    } catch (err) {
+      db.close();
+      throw err;
+    }
+  }
   const app = createApp({ db, distDir: config.distDir, version, siteName: config.siteName, log: opts.log });
 
   let server: HttpServer;

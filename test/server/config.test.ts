@@ -11,7 +11,16 @@ describe('readServerConfig', () => {
       dataDir: '/srv/crankhouse/data',
       distDir: '/srv/crankhouse/dist',
       siteName: 'Cedar Flats Compressor Station (demo)',
+      seedDemo: true,
     });
+  });
+
+  it('should start empty with CRANKHOUSE_DEMO=0 and refuse words it does not understand', () => {
+    expect(readServerConfig({ CRANKHOUSE_DEMO: '0' }, CWD).seedDemo).toBe(false);
+    expect(readServerConfig({ CRANKHOUSE_DEMO: 'true' }, CWD).seedDemo).toBe(true);
+    expect(() => readServerConfig({ CRANKHOUSE_DEMO: 'maybe' }, CWD)).toThrow(
+      /CRANKHOUSE_DEMO.*use 1 to seed the demo site/,
+    );
   });
 
   it('should treat blank variables as unset', () => {

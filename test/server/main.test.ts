@@ -43,7 +43,7 @@ function spawnMain(env: Record<string, string>): Child {
   }
   const child = spawn(process.execPath, ['--import', 'tsx', MAIN], {
     cwd: ROOT,
-    env: { ...childEnv, ...env },
+    env: { ...childEnv, CRANKHOUSE_DEMO: '0', ...env },
     stdio: ['ignore', 'pipe', 'pipe'],
   });
   let out = '';
