@@ -201,6 +201,34 @@ function endAt(
   };
 }
 
+/** Golden-section search for the maximum of a unimodal function on [low, high], to PEAK_RELATIVE_TOLERANCE. */
+function goldenMaximum(f: (x: number) => number, lowStart: number, highStart: number): { at: number; value: number } {
+  let low = lowStart;
+  let high = highStart;
+  const golden = (Math.sqrt(5) - 1) / 2;
+  let x1 = high - golden * (high - low);
+  let x2 = low + golden * (high - low);
+  let f1 = f(x1);
+  let f2 = f(x2);
+  while (high - low > PEAK_RELATIVE_TOLERANCE * low) {
+    if (f1 < f2) {
+      low = x1;
+      x1 = x2;
+      f1 = f2;
+      x2 = low + golden * (high - low);
+      f2 = f(x2);
+    } else {
+      high = x2;
+      x2 = x1;
+      f2 = f1;
+      x1 = high - golden * (high - low);
+      f1 = f(x1);
+    }
+  }
+  const at = (low + high) / 2;
+  return { at, value: f(at) };
+}
+
 /** The stage at one discharge pressure. */
 function evaluate(stage: PreparedStage, dischargePressurePa: number): StagePerformance {
   const i = stage.input;
@@ -353,41 +381,28 @@ export function powerCurve(i: StageInput & { dischargePressuresPa?: number[] }):
     };
   });
 
-  // Sample the whole delivering range, then refine around the best sample by golden-section search.
-  const samples = 64;
-  let bestIndex = 0;
-  let bestPower = -1;
+  // Sample the whole delivering range, then refine every local maximum by golden-section search. With two ends of
+  // different clearance the curve can have two humps, so the best refined hump wins.
+  const samples = 256;
   const sampleRatio = (index: number) => 1 + ((stopRatio - 1) * index) / samples;
+  const sampled = Array.from({ length: samples + 1 }, (_, index) => powerAt(sampleRatio(index)).isentropicPowerW);
+  let peakRatio = 1;
+  let peakPower = -1;
   for (let index = 0; index <= samples; index += 1) {
-    const power = powerAt(sampleRatio(index)).isentropicPowerW;
-    if (power > bestPower) {
-      bestPower = power;
-      bestIndex = index;
+    const here = sampled[index] as number;
+    const left = index > 0 ? (sampled[index - 1] as number) : Number.NEGATIVE_INFINITY;
+    const right = index < samples ? (sampled[index + 1] as number) : Number.NEGATIVE_INFINITY;
+    if (here < left || here < right) continue;
+    const refined = goldenMaximum(
+      (ratio) => powerAt(ratio).isentropicPowerW,
+      sampleRatio(Math.max(0, index - 1)),
+      sampleRatio(Math.min(samples, index + 1)),
+    );
+    if (refined.value > peakPower) {
+      peakPower = refined.value;
+      peakRatio = refined.at;
     }
   }
-  let low = sampleRatio(Math.max(0, bestIndex - 1));
-  let high = sampleRatio(Math.min(samples, bestIndex + 1));
-  const golden = (Math.sqrt(5) - 1) / 2;
-  let x1 = high - golden * (high - low);
-  let x2 = low + golden * (high - low);
-  let f1 = powerAt(x1).isentropicPowerW;
-  let f2 = powerAt(x2).isentropicPowerW;
-  while (high - low > PEAK_RELATIVE_TOLERANCE * low) {
-    if (f1 < f2) {
-      low = x1;
-      x1 = x2;
-      f1 = f2;
-      x2 = low + golden * (high - low);
-      f2 = powerAt(x2).isentropicPowerW;
-    } else {
-      high = x2;
-      x2 = x1;
-      f2 = f1;
-      x1 = high - golden * (high - low);
-      f1 = powerAt(x1).isentropicPowerW;
-    }
-  }
-  const peakRatio = (low + high) / 2;
   return {
     points,
     peak: {

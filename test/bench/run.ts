@@ -8,11 +8,13 @@ import { bundleSize } from './bundle-size';
 import { calcSpeed } from './calc-speed';
 import { checksSpeed } from './checks-speed';
 import type { Bench, BenchRow } from './rows';
+import { storeSpeed } from './store-speed';
 
 const BENCHES: Array<[string, Bench]> = [
   ['bundle', bundleSize],
   ['calc', calcSpeed],
   ['checks', checksSpeed],
+  ['store', storeSpeed],
 ];
 
 const rows: Array<BenchRow & { bench: string }> = [];

@@ -194,7 +194,7 @@ describe('main.ts as a process', () => {
 describe('startServer', () => {
   it('should serve on a free port, refuse raw traversal, and close the database on close()', async () => {
     const server = await startServer(
-      { port: 0, host: '127.0.0.1', dataDir, distDir, siteName: 'Test Flats' },
+      { port: 0, host: '127.0.0.1', dataDir, distDir, siteName: 'Test Flats', seedDemo: false },
       { version: '0.0.0-test', log: () => {} },
     );
     let closed = false;
@@ -236,7 +236,10 @@ describe('startServer', () => {
     const port = typeof address === 'object' && address ? address.port : -1;
     try {
       await expect(
-        startServer({ port, host: '127.0.0.1', dataDir, distDir, siteName: 'Test Flats' }, { version: '0.0.0-test' }),
+        startServer(
+          { port, host: '127.0.0.1', dataDir, distDir, siteName: 'Test Flats', seedDemo: false },
+          { version: '0.0.0-test' },
+        ),
       ).rejects.toThrow(new RegExp(`Port ${port} on 127\\.0\\.0\\.1 is already in use; set PORT`));
       expect(walSize()).toBe(0);
     } finally {
@@ -254,6 +257,7 @@ describe('startServer', () => {
           dataDir,
           distDir,
           siteName: 'Test Flats',
+          seedDemo: false,
           tls: { certPath, keyPath: join(temp.path, 'missing-key.pem') },
         },
         { version: '0.0.0-test' },
