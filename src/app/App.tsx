@@ -1,3 +1,4 @@
+import { DataBanner } from './components/DataBanner';
 import { Footer } from './components/Footer';
 import { Header } from './components/Header';
 import { UpdateBanner } from './components/UpdateBanner';
@@ -18,6 +19,7 @@ export function App() {
     <div class="shell">
       <Header />
       <UpdateBanner />
+      <DataBanner />
       <nav class="nav" aria-label="Screens">
         {ROUTES.map((candidate) => (
           <Link key={candidate.path} href={candidate.path} class="nav__link" current={candidate.path === path}>

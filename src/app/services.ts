@@ -1,4 +1,5 @@
 import { type ConnectionMonitor, startConnectionMonitor } from './models/connection';
+import { type DataModel, startDataModel } from './models/data';
 import { type SiteModel, startSiteModel } from './models/site';
 import { type StorageMonitor, startStorageMonitor } from './models/storage';
 
@@ -7,17 +8,28 @@ export interface Services {
   connection: ConnectionMonitor;
   storage: StorageMonitor;
   site: SiteModel;
+  data: DataModel;
 }
 
 let services: Services | null = null;
 
 export function startServices(): Services {
-  services ??= {
+  if (services) return services;
+  const storage = startStorageMonitor();
+  services = {
     connection: startConnectionMonitor(),
-    storage: startStorageMonitor(),
+    storage,
     site: startSiteModel(),
+    // Ask the browser to keep this origin's data as soon as there is something worth keeping.
+    data: startDataModel({ onFirstSave: () => void storage.requestPersistence() }),
   };
-  const { connection, site } = services;
+  const { connection, site, data } = services;
+  // On the demo site, a new tablet loads the demo configuration and history once.
+  site.name.subscribe((name) => {
+    if (name) void data.importDemoIfNeeded(name);
+  });
+  const cachedName = site.name.get();
+  if (cachedName) void data.importDemoIfNeeded(cachedName);
   // Refresh the site name whenever the server becomes reachable.
   let wasReachable = false;
   connection.state.subscribe((state) => {

@@ -1,3 +1,4 @@
+export { demoBackup } from './backup';
 export {
   CREEP,
   DEMO_DAYS,

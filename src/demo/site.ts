@@ -5,7 +5,9 @@
 import { toSI } from '../calc';
 import { type CheckPoint, SiteConfig } from '../schema';
 
-export const DEMO_SITE_NAME = 'Cedar Flats Compressor Station (demo)';
+import { DEMO_SITE_NAME } from './name';
+
+export { DEMO_SITE_NAME };
 export const DEMO_ELEVATION_M = 900;
 
 /** Invented people, one per role; they sign in as their role name. */

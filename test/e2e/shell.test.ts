@@ -4,7 +4,16 @@
  * and after the first visit the app starts with the server stopped (the server is really closed:
  * Playwright's offline switch does not cut the service worker's own requests).
  */
-import { appendFileSync, cpSync, existsSync, mkdirSync, mkdtempSync, readFileSync, rmSync } from 'node:fs';
+import {
+  appendFileSync,
+  cpSync,
+  existsSync,
+  mkdirSync,
+  mkdtempSync,
+  readFileSync,
+  rmSync,
+  writeFileSync,
+} from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
 import type { Page } from 'playwright-core';
@@ -152,6 +161,45 @@ describe('app shell in Chromium', () => {
     for (const file of [sunFile, nightFile]) {
       expect(readFileSync(file).subarray(0, 8)).toEqual(Buffer.from([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a]));
     }
+  });
+
+  it('should load the demo site onto a new tablet once, and save it all as a backup file', async () => {
+    await page.getByRole('navigation').getByRole('link', { name: 'This tablet' }).click();
+    const facts = page.getByTestId('device-facts');
+    // 90 days of a morning and a night round (the demo's story); loaded in the background on first start.
+    await expect.poll(() => facts.textContent(), { timeout: 60_000 }).toContain('Rounds on this tablet180');
+    expect(await facts.textContent()).toContain(`Site configuration${SITE_NAME}, version 1`);
+    expect(await facts.textContent()).toContain('Waiting to be sent0');
+
+    const [download] = await Promise.all([page.waitForEvent('download'), page.getByTestId('backup-save').click()]);
+    const file = join(scratch, 'backup.json');
+    await download.saveAs(file);
+    const backup = JSON.parse(readFileSync(file, 'utf8'));
+    expect(backup.format).toBe('crankhouse-backup');
+    expect(backup.rounds).toHaveLength(180);
+    expect(backup.records.map((r: { type: string }) => r.type).sort()).toEqual([
+      'bearingClearance',
+      'lockoutAck',
+      'lockoutAck',
+      'lockoutAck',
+      'valveChange',
+      'valveChange',
+    ]);
+
+    // Restoring the same file changes nothing.
+    await page.getByTestId('backup-restore').setInputFiles(file);
+    await expect
+      .poll(() => page.getByTestId('backup-message').textContent(), { timeout: 60_000 })
+      .toMatch(/^Restored 0 records; \d+ were already here\.$/);
+    // A damaged file is refused whole, with the place named.
+    const damaged = join(scratch, 'damaged.json');
+    backup.rounds[3].readings[0].valueSI = 'hot';
+    writeFileSync(damaged, JSON.stringify(backup));
+    await page.getByTestId('backup-restore').setInputFiles(damaged);
+    await expect
+      .poll(() => page.getByTestId('backup-message').textContent(), { timeout: 60_000 })
+      .toMatch(/^Nothing was changed: .*rounds\.3\.readings\.0\.valueSI/);
+    await page.getByRole('navigation').getByRole('link', { name: 'Home' }).click();
   });
 
   it('should offer a new version and reload only when asked', async () => {
