@@ -1,35 +1,45 @@
+import type { ComponentType } from 'preact';
 import { DataBanner } from './components/DataBanner';
 import { Footer } from './components/Footer';
 import { Header } from './components/Header';
 import { UpdateBanner } from './components/UpdateBanner';
-import { Link, lazyScreen, usePath } from './router';
+import { Link, lazyScreen, matchPath, type ScreenProps, usePath } from './router';
 import { Home } from './screens/Home';
 
 /** Screens by address. Each screen after the first paint is its own chunk (and precached). */
-const ROUTES: Array<{ path: string; label: string; screen: ReturnType<typeof lazyScreen> | typeof Home }> = [
-  { path: '/', label: 'Home', screen: Home },
-  { path: '/device', label: 'This tablet', screen: lazyScreen(() => import('./screens/Device')) },
+const ROUTES: Array<{ pattern: string; label?: string; screen: ComponentType<ScreenProps> }> = [
+  { pattern: '/', label: 'Home', screen: Home },
+  { pattern: '/rounds', label: 'Rounds', screen: lazyScreen(() => import('./screens/Rounds')) },
+  { pattern: '/rounds/:id', screen: lazyScreen(() => import('./screens/Round')) },
+  { pattern: '/device', label: 'This tablet', screen: lazyScreen(() => import('./screens/Device')) },
 ];
 
 export function App() {
   const path = usePath();
-  const route = ROUTES.find((candidate) => candidate.path === path);
+  let params: Record<string, string> | null = null;
+  const route = ROUTES.find((candidate) => {
+    params = matchPath(candidate.pattern, path);
+    return params !== null;
+  });
   const Screen = route?.screen;
+  const section = ROUTES.find(
+    (candidate) => candidate.label && (candidate.pattern === '/' ? path === '/' : path.startsWith(candidate.pattern)),
+  );
   return (
     <div class="shell">
       <Header />
       <UpdateBanner />
       <DataBanner />
       <nav class="nav" aria-label="Screens">
-        {ROUTES.map((candidate) => (
-          <Link key={candidate.path} href={candidate.path} class="nav__link" current={candidate.path === path}>
+        {ROUTES.filter((candidate) => candidate.label).map((candidate) => (
+          <Link key={candidate.pattern} href={candidate.pattern} class="nav__link" current={candidate === section}>
             {candidate.label}
           </Link>
         ))}
       </nav>
       <main class="main" id="main">
         {Screen ? (
-          <Screen />
+          <Screen params={params ?? {}} />
         ) : (
           <section class="card">
             <h2>Nothing here</h2>

@@ -32,16 +32,32 @@ export function Link(props: { href: string; class?: string; children: ComponentC
   );
 }
 
-type ScreenModule = { default: ComponentType };
+/** Params of a path against a pattern like `/rounds/:id`, or null when it does not match. */
+export function matchPath(pattern: string, path: string): Record<string, string> | null {
+  const want = pattern.split('/').filter(Boolean);
+  const have = path.split('/').filter(Boolean);
+  if (want.length !== have.length) return null;
+  const params: Record<string, string> = {};
+  for (let index = 0; index < want.length; index += 1) {
+    const part = want[index] as string;
+    const value = have[index] as string;
+    if (part.startsWith(':')) params[part.slice(1)] = decodeURIComponent(value);
+    else if (part !== value) return null;
+  }
+  return params;
+}
+
+export type ScreenProps = { params: Record<string, string> };
+type ScreenModule = { default: ComponentType<ScreenProps> };
 
 /**
  * Loads a screen's chunk on first use. Every chunk is precached by the service worker, so this works offline;
  * a failure means the tablet never finished caching the app, and the message says what to do.
  */
-export function lazyScreen(load: () => Promise<ScreenModule>): ComponentType {
-  let loaded: ComponentType | null = null;
-  return function LazyScreen() {
-    const [screen, setScreen] = useState<{ component: ComponentType | null; error: string | null }>({
+export function lazyScreen(load: () => Promise<ScreenModule>): ComponentType<ScreenProps> {
+  let loaded: ComponentType<ScreenProps> | null = null;
+  return function LazyScreen(props: ScreenProps) {
+    const [screen, setScreen] = useState<{ component: ComponentType<ScreenProps> | null; error: string | null }>({
       component: loaded,
       error: null,
     });
@@ -73,6 +89,6 @@ export function lazyScreen(load: () => Promise<ScreenModule>): ComponentType {
       );
     }
     const Screen = screen.component;
-    return Screen ? <Screen /> : <p class="loading">Loading…</p>;
+    return Screen ? <Screen {...props} /> : <p class="loading">Loading…</p>;
   };
 }
