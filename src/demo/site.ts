@@ -247,10 +247,13 @@ function gasCompressorPoints(spec: MachineSpec): { morning: PointInput[]; night:
     },
     { id: `${m}-NOTE`, label: 'Anything else on this machine', kind: 'text', machineId: m },
   ];
+  const coversOf = (stageId: string) => covers.filter((point) => point.stageId === stageId);
+  // Each stage's covers follow its pressures and temperatures, as an operator walks from one cylinder to the next.
   const morning = [
     ...stage(1, [1.5, 4.5], [14, 15.5], 150),
+    ...coversOf('S1'),
     ...stage(2, [9, 14.5], [48, 52], 150),
-    ...covers,
+    ...coversOf('S2'),
     ...mains,
     ...crossheads,
     ...oil,
