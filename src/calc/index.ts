@@ -111,6 +111,7 @@ export {
 } from './stage';
 export { STATUS_ORDER, type Status, worstStatus } from './status';
 export {
+  fitToLimit,
   type TimeToLimitInput,
   type TimeToLimitResult,
   TREND_MIN_R_SQUARED,

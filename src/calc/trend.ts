@@ -40,13 +40,24 @@ export function timeToLimit(i: TimeToLimitInput): TimeToLimitResult {
   const window = Math.floor(
     requireRange('E_TIME_ORDER', 'window', i.window ?? TREND_WINDOW_DEFAULT, { min: 2, max: 10_000 }),
   );
-  const all = i.points
-    .map((point, index) => ({
-      t: parseTime(`points[${index}].at`, point.at),
-      v: requireFinite(`points[${index}].value`, point.value),
-    }))
-    .sort((a, b) => a.t - b.t);
-  const recent = all.slice(-window);
+  const all = i.points.map((point, index) => ({
+    t: parseTime(`points[${index}].at`, point.at),
+    v: requireFinite(`points[${index}].value`, point.value),
+  }));
+  return fitToLimit(all, i.limit, i.direction, window);
+}
+
+/**
+ * The same fit for points whose times are already parsed (ms since the epoch, finite values): the checks engine
+ * keeps parsed times for its history, so it skips re-reading ISO strings on every evaluation.
+ */
+export function fitToLimit(
+  points: ReadonlyArray<{ t: number; v: number }>,
+  limit: number,
+  direction: 'rising' | 'falling',
+  window = TREND_WINDOW_DEFAULT,
+): TimeToLimitResult {
+  const recent = [...points].sort((a, b) => a.t - b.t).slice(-window);
   const n = recent.length;
   const none = { slopePerDay: 0, reachesAt: null, rSquared: 0, enoughData: false };
   if (n < 2) return none;
@@ -72,10 +83,10 @@ export function timeToLimit(i: TimeToLimitInput): TimeToLimitResult {
   const residual = ys.reduce((s, y, k) => s + (y - (intercept + slopePerDay * (xs[k] as number))) ** 2, 0);
   const rSquared = syy === 0 ? 1 : Math.max(0, 1 - residual / syy);
   const enoughData = n >= TREND_MIN_POINTS;
-  const towardLimit = i.direction === 'rising' ? slopePerDay > 0 : slopePerDay < 0;
+  const towardLimit = direction === 'rising' ? slopePerDay > 0 : slopePerDay < 0;
   if (!enoughData || !towardLimit || rSquared < TREND_MIN_R_SQUARED)
     return { slopePerDay, reachesAt: null, rSquared, enoughData };
-  const crossingDays = (i.limit - intercept) / slopePerDay;
+  const crossingDays = (limit - intercept) / slopePerDay;
   const crossingMs = t0 + crossingDays * MS_PER_DAY;
   // Beyond the range of a Date the line never meets the limit in any useful time.
   const reachesAt =

@@ -1,5 +1,5 @@
 /** Per check point with history: where its trend meets the nearest limit ahead of it. */
-import { timeToLimit } from '../calc';
+import { fitToLimit } from '../calc';
 import type { Finding } from '../schema';
 import { display, makeFinding, type RoundContext } from './context';
 
@@ -18,10 +18,10 @@ export function trendFindings(ctx: RoundContext): Finding[] {
     if (!point?.limits || reading.valueSI === null || !past || past.length < 2) continue;
     const now = Date.parse(reading.at);
     const earlier = past.filter((entry) => entry.ms < now).slice(-(TREND_WINDOW - 1));
-    const series = [...earlier.map((entry) => entry.reading), reading].map((r) => ({
-      at: r.at,
-      value: r.valueSI as number,
-    }));
+    const series = [
+      ...earlier.map((entry) => ({ t: entry.ms, v: entry.reading.valueSI as number })),
+      { t: now, v: reading.valueSI },
+    ];
     if (series.length < TREND_MIN_POINTS) continue;
     // The nearest limit ahead in each direction: a value still below its watch limit is heading for that first.
     const value = reading.valueSI;
@@ -36,12 +36,7 @@ export function trendFindings(ctx: RoundContext): Finding[] {
     if (highs.length) candidates.push({ limit: Math.min(...highs), direction: 'rising' });
     if (lows.length) candidates.push({ limit: Math.max(...lows), direction: 'falling' });
     for (const candidate of candidates) {
-      const trend = timeToLimit({
-        points: series,
-        limit: candidate.limit,
-        direction: candidate.direction,
-        window: TREND_WINDOW,
-      });
+      const trend = fitToLimit(series, candidate.limit, candidate.direction, TREND_WINDOW);
       if (!trend.reachesAt) continue;
       const days = (Date.parse(trend.reachesAt) - Date.parse(reading.at)) / 86_400_000;
       if (days < 0 || days > TREND_HORIZON_DAYS) continue;
