@@ -63,3 +63,17 @@ export {
   UnitPreferences,
   ValvePosition,
 } from './site';
+export {
+  MAX_PUSH_BYTES,
+  MAX_RECORDS_PER_PUSH,
+  PulledRecord,
+  PullResponse,
+  PushRequest,
+  PushResponse,
+  PushResult,
+  ROLES,
+  Role,
+  SessionRequest,
+  SessionResponse,
+  SignedInUser,
+} from './sync';

@@ -9,6 +9,7 @@ import { DB_NAME, type Db, type OutboxEntry, openDb, type RecordKind } from './d
 import { StoreError } from './errors';
 import { deviceId, getMeta, setMeta } from './meta';
 import { acknowledge, markNeedsAttention, outboxCounts, outboxPending } from './outbox';
+import { applyPulled, type PulledItem, type PullResult, pullCursor } from './pulled';
 import { listRecords, saveRecord } from './records';
 import {
   type EnvelopeMeta,
@@ -29,6 +30,7 @@ import type { Ctx } from './tx';
 export type { BackupFile, ImportResult } from './backup';
 export { DB_NAME, DB_VERSION, type OutboxEntry, type OutboxState, type RecordKind } from './db';
 export { StoreError, type StoreErrorCode } from './errors';
+export type { PulledItem, PullResult } from './pulled';
 export type { EnvelopeMeta, FinishRoundInput, HistoryOptions, RoundFilter } from './rounds';
 
 export interface OpenStoreOptions {
@@ -85,6 +87,10 @@ export interface Store {
   exportBackup(): Promise<BackupFile>;
   /** Validates a backup file completely, then merges it by id in one transaction. */
   importBackup(data: unknown): Promise<ImportResult>;
+  /** Stores records pulled from the server and the new cursor in one transaction (never into the outbox). */
+  applyPulled(items: PulledItem[], next: number): Promise<PullResult>;
+  /** The last server sequence number pulled (0 before the first pull). */
+  pullCursor(): Promise<number>;
   /** Closes the connection; later calls fail with E_CLOSED. */
   close(): void;
 }
@@ -155,6 +161,8 @@ export async function openStore(options: OpenStoreOptions = {}): Promise<Store> 
     deviceId: () => deviceId(ctx),
     exportBackup: () => exportBackup(ctx),
     importBackup: (data) => importBackup(ctx, data),
+    applyPulled: (items, next) => applyPulled(ctx, items, next),
+    pullCursor: () => pullCursor(ctx),
     close() {
       state = 'closed';
       connection?.close();

@@ -4,8 +4,10 @@ import { type Ctx, FIRST_SAVE_KEY, read, write } from './tx';
 import { invalid } from './validate';
 
 export const DEVICE_ID_KEY = 'deviceId';
+/** The last server sequence number pulled; moves only with the pulled records (pulled.ts). */
+export const PULL_CURSOR_KEY = 'pullCursor';
 /** Keys the store manages itself; setMeta refuses them. */
-const RESERVED = new Set([DEVICE_ID_KEY, FIRST_SAVE_KEY]);
+const RESERVED = new Set([DEVICE_ID_KEY, FIRST_SAVE_KEY, PULL_CURSOR_KEY]);
 
 function checkKey(key: unknown): string {
   if (typeof key !== 'string' || key.length < 1 || key.length > 200) {
