@@ -2,6 +2,7 @@ import { type ConnectionMonitor, startConnectionMonitor } from './models/connect
 import { type DataModel, startDataModel } from './models/data';
 import { type SiteModel, startSiteModel } from './models/site';
 import { type StorageMonitor, startStorageMonitor } from './models/storage';
+import { type SyncModel, startSyncModel } from './models/sync';
 
 /** The long-lived models the shell and the screens share. Created once by main.tsx. */
 export interface Services {
@@ -9,6 +10,7 @@ export interface Services {
   storage: StorageMonitor;
   site: SiteModel;
   data: DataModel;
+  sync: SyncModel;
 }
 
 let services: Services | null = null;
@@ -16,14 +18,17 @@ let services: Services | null = null;
 export function startServices(): Services {
   if (services) return services;
   const storage = startStorageMonitor();
+  const connection = startConnectionMonitor();
+  // Ask the browser to keep this origin's data as soon as there is something worth keeping.
+  const data = startDataModel({ onFirstSave: () => void storage.requestPersistence() });
   services = {
-    connection: startConnectionMonitor(),
+    connection,
     storage,
     site: startSiteModel(),
-    // Ask the browser to keep this origin's data as soon as there is something worth keeping.
-    data: startDataModel({ onFirstSave: () => void storage.requestPersistence() }),
+    data,
+    sync: startSyncModel(data, connection),
   };
-  const { connection, site, data } = services;
+  const { site } = services;
   // On the demo site, a new tablet loads the demo configuration and history once.
   site.name.subscribe((name) => {
     if (name) void data.importDemoIfNeeded(name);

@@ -8,7 +8,14 @@ import { getConfig, putConfig } from './config';
 import { DB_NAME, type Db, type OutboxEntry, openDb, type RecordKind } from './db';
 import { StoreError } from './errors';
 import { deviceId, getMeta, setMeta } from './meta';
-import { acknowledge, markNeedsAttention, outboxCounts, outboxPending } from './outbox';
+import {
+  acknowledge,
+  markNeedsAttention,
+  outboxAttention,
+  outboxCounts,
+  outboxPending,
+  retryAttention,
+} from './outbox';
 import { applyPulled, type PulledItem, type PullResult, pullCursor } from './pulled';
 import { listRecords, saveRecord } from './records';
 import {
@@ -75,6 +82,10 @@ export interface Store {
   acknowledge(ids: string[]): Promise<number>;
   /** Parks an outbox entry as needing attention with the reason (it is no longer pending). */
   markNeedsAttention(id: string, reason: string): Promise<void>;
+  /** Entries parked as needing attention, with the server's reason in `lastError`. */
+  outboxAttention(limit: number): Promise<OutboxEntry[]>;
+  /** Puts a parked entry back in line to be sent again. */
+  retryAttention(id: string): Promise<void>;
   /** How many outbox entries are pending and how many need attention. */
   outboxCounts(): Promise<{ pending: number; attention: number }>;
   /** A stored device fact or sync cursor. */
@@ -156,6 +167,8 @@ export async function openStore(options: OpenStoreOptions = {}): Promise<Store> 
     acknowledge: (ids) => acknowledge(ctx, ids),
     markNeedsAttention: (id, reason) => markNeedsAttention(ctx, id, reason),
     outboxCounts: () => outboxCounts(ctx),
+    outboxAttention: (limit) => outboxAttention(ctx, limit),
+    retryAttention: (id) => retryAttention(ctx, id),
     getMeta: (key) => getMeta(ctx, key),
     setMeta: (key, value) => setMeta(ctx, key, value),
     deviceId: () => deviceId(ctx),

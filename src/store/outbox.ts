@@ -71,3 +71,20 @@ export async function outboxCounts(ctx: Ctx): Promise<{ pending: number; attenti
     return { pending: await index.count('pending'), attention: await index.count('attention') };
   });
 }
+
+export async function outboxAttention(ctx: Ctx, limit: number): Promise<OutboxEntry[]> {
+  const count = checkLimit(limit);
+  return read(ctx, ['outbox'], (tx) => tx.objectStore('outbox').index('byState').getAll('attention', count));
+}
+
+/** Puts a parked entry back in line (after the cause was fixed on the server, e.g. a missing configuration). */
+export async function retryAttention(ctx: Ctx, recordId: string): Promise<void> {
+  const id = parse(Id, recordId, 'outbox entry id', 'id');
+  await write(ctx, ['outbox'], async (tx) => {
+    const outbox = tx.objectStore('outbox');
+    const seq = await outbox.index('byRecordId').getKey(id);
+    const entry = seq === undefined ? undefined : await outbox.get(seq);
+    if (!entry) throw new StoreError('E_NOT_FOUND', `id: record ${id} is not waiting in the outbox.`);
+    await outbox.put({ ...entry, state: 'pending' });
+  });
+}

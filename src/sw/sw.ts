@@ -26,3 +26,13 @@ clientsClaim();
 self.addEventListener('message', (event) => {
   if (isSkipWaitingMessage(event.data)) void self.skipWaiting();
 });
+
+// Background sync (Chromium): wake the open pages to run their sync. The outbox in IndexedDB stays the only queue.
+self.addEventListener('sync', (event: Event & { tag?: string; waitUntil?: (p: Promise<unknown>) => void }) => {
+  if (event.tag !== 'crankhouse-sync') return;
+  event.waitUntil?.(
+    self.clients.matchAll({ type: 'window' }).then((clients) => {
+      for (const client of clients) client.postMessage({ type: 'SYNC_NOW' });
+    }),
+  );
+});

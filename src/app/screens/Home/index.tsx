@@ -1,3 +1,4 @@
+import { SyncPanel } from '../../components/SyncPanel';
 import { describeConnection } from '../../models/connection';
 import { useObservable } from '../../models/observable';
 import { formatBytes, storageWarnings } from '../../models/storage';
@@ -20,6 +21,8 @@ export function Home() {
         <h2>Ready for the compressor house?</h2>
         <p>Check these three before you walk out of network reach.</p>
       </section>
+
+      <SyncPanel />
 
       <section class="card" aria-labelledby="connection-heading">
         <h2 id="connection-heading">Site server</h2>
