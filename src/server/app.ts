@@ -1,10 +1,16 @@
 import { Hono } from 'hono';
 import type { Database } from './db';
 import { type ApiErrorBody, errorHandler, type Logger, logToStderr } from './errors';
+import { configRoutes } from './routes/config';
+import { findingRoutes } from './routes/findings';
 import { healthRoutes } from './routes/health';
+import { recordRoutes } from './routes/records';
+import { sessionRoutes } from './routes/sessions';
 import { siteRoutes } from './routes/site';
 import { appShellOrNotFound, isApiPath, staticFiles } from './routes/static';
 import { securityHeaders } from './security';
+import { createServices } from './services';
+import type { SignInThrottle } from './sessions';
 
 export interface AppDeps {
   db: Database;
@@ -13,11 +19,21 @@ export interface AppDeps {
   version: string;
   siteName: string;
   log?: Logger;
+  /** The clock for sessions, sign-in throttling and receive times; tests move it. */
+  now?: () => Date;
+  /** Failed sign-in limits; the default allows 5 per user id and 20 per client address in 15 minutes. */
+  throttle?: SignInThrottle;
 }
 
 /** Builds the HTTP app without listening; `main.ts` serves it, tests call `app.request()`. */
 export function createApp(deps: AppDeps): Hono {
   const app = new Hono();
+  const log = deps.log ?? logToStderr;
+  const services = createServices(deps.db, {
+    log,
+    ...(deps.now ? { now: deps.now } : {}),
+    ...(deps.throttle ? { throttle: deps.throttle } : {}),
+  });
 
   app.use('*', securityHeaders());
   app.use('/api/*', async (c, next) => {
@@ -28,6 +44,10 @@ export function createApp(deps: AppDeps): Hono {
   // API routes, one file per resource, all under /api/v1.
   app.route('/api/v1', healthRoutes(deps));
   app.route('/api/v1', siteRoutes(deps));
+  app.route('/api/v1', sessionRoutes(services));
+  app.route('/api/v1', recordRoutes(services));
+  app.route('/api/v1', configRoutes(services));
+  app.route('/api/v1', findingRoutes(services));
 
   app.use('*', staticFiles(deps.distDir));
 
@@ -39,6 +59,6 @@ export function createApp(deps: AppDeps): Hono {
     }
     return appShellOrNotFound(c, deps.distDir);
   });
-  app.onError(errorHandler(deps.log ?? logToStderr));
+  app.onError(errorHandler(log));
   return app;
 }

@@ -13,6 +13,8 @@ export interface ServerConfig {
   siteName: string;
   /** Seed the invented demo site into an empty database (CRANKHOUSE_DEMO, default on). */
   seedDemo: boolean;
+  /** One passcode for every demo person (CRANKHOUSE_DEMO_PASSCODE); unset gives each a random 6-digit one. */
+  demoPasscode?: string;
   tls?: TlsFiles;
 }
 
@@ -91,10 +93,6 @@ function readTls(cert: string | undefined, key: string | undefined, cwd: string)
   return { certPath: resolve(cwd, cert), keyPath: resolve(cwd, key) };
 }
 
-/**
- * Reads the server settings from environment variables. Pure: it touches no files, so the caller
- * decides whether folders exist. Relative paths are resolved against `cwd`.
- */
 function readDemo(raw: string | undefined): boolean {
   if (raw === undefined || raw === '1' || raw === 'true') return true;
   if (raw === '0' || raw === 'false') return false;
@@ -104,9 +102,29 @@ function readDemo(raw: string | undefined): boolean {
   );
 }
 
+/** 6 to 64 printable ASCII characters (space to tilde). */
+const DEMO_PASSCODE = /^[\x20-\x7e]{6,64}$/;
+
+function readDemoPasscode(raw: string | undefined): string | undefined {
+  if (raw === undefined) return undefined;
+  // The value is a secret: the message describes it without repeating it.
+  if (!DEMO_PASSCODE.test(raw)) {
+    throw new ConfigError(
+      'CRANKHOUSE_DEMO_PASSCODE',
+      `is ${raw.length} characters long${/[^\x20-\x7e]/.test(raw) ? ' and holds characters that are not printable ASCII' : ''}; use 6 to 64 printable ASCII characters (letters, digits, punctuation)`,
+    );
+  }
+  return raw;
+}
+
+/**
+ * Reads the server settings from environment variables. Pure: it touches no files, so the caller
+ * decides whether folders exist. Relative paths are resolved against `cwd`.
+ */
 export function readServerConfig(env: Record<string, string | undefined>, cwd: string): ServerConfig {
   if (!isAbsolute(cwd)) throw new TypeError(`cwd must be an absolute path, got "${cwd}"`);
   const tls = readTls(read(env, 'CRANKHOUSE_TLS_CERT'), read(env, 'CRANKHOUSE_TLS_KEY'), cwd);
+  const demoPasscode = readDemoPasscode(read(env, 'CRANKHOUSE_DEMO_PASSCODE'));
   return {
     port: readPort(read(env, 'PORT')),
     host: readHost(read(env, 'HOST')),
@@ -114,6 +132,7 @@ export function readServerConfig(env: Record<string, string | undefined>, cwd: s
     distDir: resolve(cwd, read(env, 'CRANKHOUSE_DIST') ?? 'dist'),
     siteName: readSiteName(read(env, 'CRANKHOUSE_SITE_NAME')),
     seedDemo: readDemo(read(env, 'CRANKHOUSE_DEMO')),
+    ...(demoPasscode === undefined ? {} : { demoPasscode }),
     ...(tls ? { tls } : {}),
   };
 }

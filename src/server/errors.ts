@@ -55,6 +55,9 @@ const CODES_BY_STATUS: Readonly<Record<number, string>> = {
   429: 'E_TOO_MANY_REQUESTS',
 };
 
+/** Refused sign-ins and tokens (401, 403, 429) are logged where they happen, with the reason and client address. */
+const LOGGED_AT_SOURCE: ReadonlySet<number> = new Set([401, 403, 429]);
+
 const INTERNAL_BODY: ApiErrorBody = { error: { code: 'E_INTERNAL', message: 'Internal server error' } };
 
 /** Writes one JSON line to stderr. */
@@ -76,6 +79,18 @@ function errorDetail(err: unknown): Record<string, unknown> {
 export function errorHandler(log: Logger): ErrorHandler {
   return (err, c) => {
     if (err instanceof ApiError) {
+      if (err.status < 500 && !LOGGED_AT_SOURCE.has(err.status)) {
+        log({
+          time: new Date().toISOString(),
+          level: 'warn',
+          event: 'request-refused',
+          status: err.status,
+          code: err.code,
+          method: c.req.method,
+          path: c.req.path,
+          message: err.message.slice(0, 300),
+        });
+      }
       if (err.status >= 500) {
         log({
           time: new Date().toISOString(),
@@ -89,6 +104,14 @@ export function errorHandler(log: Logger): ErrorHandler {
       return c.json(body, err.status, err.headers);
     }
     if (err instanceof HTTPException && err.status < 500) {
+      log({
+        time: new Date().toISOString(),
+        level: 'warn',
+        event: 'request-refused',
+        status: err.status,
+        method: c.req.method,
+        path: c.req.path,
+      });
       const body: ApiErrorBody = {
         error: { code: CODES_BY_STATUS[err.status] ?? 'E_BAD_REQUEST', message: err.message || 'Bad request' },
       };

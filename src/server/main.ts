@@ -8,7 +8,7 @@ import { createApp } from './app';
 import { readServerConfig, type ServerConfig } from './config';
 import { openDatabase } from './db';
 import { type Logger, logToStderr } from './errors';
-import { seedDemoSite } from './seed';
+import { formatSignIns, laterStartSignIns, type SeedResult, seedDemoSite } from './seed';
 
 /** How long shutdown waits for open requests before cutting their connections. */
 export const SHUTDOWN_GRACE_MS = 10_000;
@@ -26,6 +26,11 @@ export interface RunningServer {
   port: number;
   /** Stops accepting, lets open requests finish (cut after 10 s), then closes the database. */
   close(): Promise<void>;
+  /**
+   * The demo sign-ins: at the start that seeded them, each person's passcode (shown once, never stored); on a later
+   * start only a line saying where the passcodes were shown. Null when the demo is off or was never seeded here.
+   */
+  demo: { signIns: SeedResult['signIns']; message: string } | null;
 }
 
 /** The version field of the project's package.json, read at run time. */
@@ -60,10 +65,22 @@ export async function startServer(config: ServerConfig, opts: StartOptions = {})
   const version = opts.version ?? readPackageVersion();
   const tlsFiles = config.tls ? readTlsFiles(config.tls) : undefined;
   const db = openDatabase(config.dataDir, opts.migrationsDir ? { migrationsDir: opts.migrationsDir } : {});
+  let demo: RunningServer['demo'] = null;
   if (config.seedDemo) {
+    const log = opts.log ?? logToStderr;
     try {
-      const seeded = seedDemoSite(db);
-      if (seeded.seeded) (opts.log ?? logToStderr)({ event: 'demo-seeded', records: seeded.records });
+      const seeded = await seedDemoSite(db, {
+        log,
+        ...(config.demoPasscode === undefined ? {} : { passcode: config.demoPasscode }),
+      });
+      if (seeded.seeded) {
+        // The passcodes are for the person starting the server (stdout), never for the log.
+        log({ time: new Date().toISOString(), event: 'demo-seeded', records: seeded.records });
+        if (seeded.signIns.length > 0) demo = { signIns: seeded.signIns, message: formatSignIns(seeded.signIns) };
+      } else {
+        const message = await laterStartSignIns(db, config.demoPasscode);
+        if (message) demo = { signIns: [], message };
+      }
     } catch (err) {
       db.close();
       throw err;
@@ -129,7 +146,7 @@ export async function startServer(config: ServerConfig, opts: StartOptions = {})
     return closed;
   };
 
-  return { url: displayUrl(config, port), port, close };
+  return { url: displayUrl(config, port), port, close, demo };
 }
 
 function oneLine(err: unknown): string {
@@ -175,6 +192,7 @@ async function main(): Promise<void> {
   process.stdout.write(`Crankhouse is running at ${running.url}\n`);
   process.stdout.write(`Data folder: ${config.dataDir}\n`);
   process.stdout.write(`Version: ${version}\n`);
+  if (running.demo) process.stdout.write(`${running.demo.message}\n`);
   if (!existsSync(join(config.distDir, 'index.html'))) {
     process.stdout.write(`Warning: ${join(config.distDir, 'index.html')} is missing; run npm run build\n`);
   }

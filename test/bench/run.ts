@@ -7,7 +7,9 @@ import { join, resolve } from 'node:path';
 import { bundleSize } from './bundle-size';
 import { calcSpeed } from './calc-speed';
 import { checksSpeed } from './checks-speed';
+import { roundEntry } from './round-entry';
 import type { Bench, BenchRow } from './rows';
+import { serverIngest } from './server-ingest';
 import { storeSpeed } from './store-speed';
 
 const BENCHES: Array<[string, Bench]> = [
@@ -15,6 +17,8 @@ const BENCHES: Array<[string, Bench]> = [
   ['calc', calcSpeed],
   ['checks', checksSpeed],
   ['store', storeSpeed],
+  ['server', serverIngest],
+  ['round entry', roundEntry],
 ];
 
 const rows: Array<BenchRow & { bench: string }> = [];

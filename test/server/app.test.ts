@@ -188,7 +188,10 @@ describe('errors', () => {
     expect(await res.json()).toEqual({
       error: { code: 'E_CONFLICT', message: 'Record 42 already exists with other content' },
     });
-    expect(logged).toHaveLength(0);
+    // A refused request is logged as one warning line without a stack (OWASP ASVS 5.0 16.3.3).
+    expect(logged).toHaveLength(1);
+    expect(logged[0]).toMatchObject({ level: 'warn', event: 'request-refused', status: 409, code: 'E_CONFLICT' });
+    expect(logged[0]?.stack).toBeUndefined();
   });
 
   it("should map Hono's HTTPException client errors to a JSON error", async () => {

@@ -94,6 +94,31 @@ describe('readServerConfig', () => {
     expect(() => readServerConfig({ CRANKHOUSE_SITE_NAME: 'x'.repeat(201) }, CWD)).toThrow(/at most 200/);
   });
 
+  it('should read CRANKHOUSE_DEMO_PASSCODE of 6 to 64 printable characters', () => {
+    expect(readServerConfig({}, CWD).demoPasscode).toBeUndefined();
+    expect(readServerConfig({ CRANKHOUSE_DEMO_PASSCODE: '123456' }, CWD).demoPasscode).toBe('123456');
+    expect(readServerConfig({ CRANKHOUSE_DEMO_PASSCODE: 'Cedar Flats #7!' }, CWD).demoPasscode).toBe('Cedar Flats #7!');
+    expect(readServerConfig({ CRANKHOUSE_DEMO_PASSCODE: 'x'.repeat(64) }, CWD).demoPasscode).toHaveLength(64);
+  });
+
+  it.each([
+    ['12345', /is 5 characters long; use 6 to 64 printable ASCII/],
+    ['x'.repeat(65), /is 65 characters long; use 6 to 64/],
+    ['pass\tword', /not printable ASCII/],
+    ['päss-wörd', /not printable ASCII/],
+  ])('should refuse CRANKHOUSE_DEMO_PASSCODE=%j without repeating it', (raw, message) => {
+    let caught: unknown;
+    try {
+      readServerConfig({ CRANKHOUSE_DEMO_PASSCODE: raw }, CWD);
+    } catch (err) {
+      caught = err;
+    }
+    expect(caught).toBeInstanceOf(ConfigError);
+    expect((caught as ConfigError).variable).toBe('CRANKHOUSE_DEMO_PASSCODE');
+    expect((caught as ConfigError).message).toMatch(message);
+    expect((caught as ConfigError).message).not.toContain(raw);
+  });
+
   it('should refuse a relative cwd', () => {
     expect(() => readServerConfig({}, 'relative/dir')).toThrow(TypeError);
   });

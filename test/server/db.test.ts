@@ -193,6 +193,85 @@ describe('openDatabase', () => {
   });
 });
 
+describe('migration 003: users, sessions, conflicts, server findings', () => {
+  function columns(db: BetterSqlite3.Database, table: string): string[] {
+    return (db.prepare('SELECT name FROM pragma_table_info(?) ORDER BY cid').all(table) as Array<{ name: string }>).map(
+      (column) => column.name,
+    );
+  }
+
+  it('should create its tables on a fresh data folder', () => {
+    const db = openDatabase(dataDir);
+    try {
+      expect(tableNames(db)).toEqual(
+        expect.arrayContaining([
+          'users',
+          'sessions',
+          'conflicts',
+          'server_rounds',
+          'server_findings',
+          'finding_mismatches',
+          'finding_reviews',
+        ]),
+      );
+      expect(columns(db, 'users')).toEqual([
+        'id',
+        'name',
+        'roles',
+        'passcode_salt',
+        'passcode_hash',
+        'passcode_scrypt',
+        'disabled',
+        'created_at',
+      ]);
+      expect(columns(db, 'sessions')).toEqual([
+        'token_sha256',
+        'token_prefix',
+        'user_id',
+        'device_id',
+        'device_name',
+        'created_at',
+        'last_used_at',
+        'revoked_at',
+      ]);
+      expect(columns(db, 'finding_mismatches')).toEqual([
+        'id',
+        'round_id',
+        'key',
+        'rule',
+        'device_severity',
+        'server_severity',
+      ]);
+    } finally {
+      db.close();
+    }
+  });
+
+  it('should end the sessions of a user who is disabled, and refuse a session for an unknown user', () => {
+    const db = openDatabase(dataDir);
+    try {
+      const now = '2026-12-01T08:00:00.000Z';
+      db.prepare(
+        `INSERT INTO users (id, name, roles, passcode_salt, passcode_hash, passcode_scrypt, created_at)
+         VALUES ('kim', 'Kim', '["operator"]', x'00', x'00', '{}', ?)`,
+      ).run(now);
+      const session = db.prepare(
+        `INSERT INTO sessions (token_sha256, token_prefix, user_id, device_id, device_name, created_at, last_used_at)
+         VALUES (?, 'abcdef', ?, 'tablet-1', 'Tablet', ?, ?)`,
+      );
+      session.run('a'.repeat(64), 'kim', now, now);
+      session.run('b'.repeat(64), 'kim', now, now);
+      // source: sqlite.org/foreignkeys.html (a child row must reference an existing parent when enforcement is on)
+      expect(() => session.run('c'.repeat(64), 'nobody', now, now)).toThrow(/FOREIGN KEY/);
+      db.prepare("UPDATE users SET disabled = 1 WHERE id = 'kim'").run();
+      expect(db.prepare('SELECT count(*) FROM sessions WHERE revoked_at IS NULL').pluck().get()).toBe(0);
+      expect(() => db.prepare("UPDATE users SET disabled = 2 WHERE id = 'kim'").run()).toThrow(/CHECK/);
+    } finally {
+      db.close();
+    }
+  });
+});
+
 describe('databaseHealth', () => {
   it('should answer ok while open and unavailable after close, without throwing', () => {
     const db = openDatabase(dataDir);

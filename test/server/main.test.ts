@@ -1,4 +1,3 @@
-import { type ChildProcess, spawn } from 'node:child_process';
 import { existsSync, readFileSync, statSync, writeFileSync } from 'node:fs';
 import { connect, createServer } from 'node:net';
 import { join } from 'node:path';
@@ -6,14 +5,12 @@ import { fileURLToPath } from 'node:url';
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import { openDatabase } from '../../src/server/db';
 import { startServer } from '../../src/server/main';
+import { killIfRunning, SEED_WAIT_MS, spawnMain, WAIT_MS, waitForExit, waitForOutput } from './child';
 import { FAKE_INDEX_HTML, makeTempDir, writeFakeDist } from './fixtures';
 
 const ROOT = fileURLToPath(new URL('../..', import.meta.url));
-const MAIN = join(ROOT, 'src', 'server', 'main.ts');
 const PACKAGE_VERSION = (JSON.parse(readFileSync(join(ROOT, 'package.json'), 'utf8')) as { version: string }).version;
 const SECRET = 'TRAVERSAL-MARKER-51c0';
-/** Upper bound for a child to start or stop; a guard against hanging, not a speed check. */
-const WAIT_MS = 20_000;
 
 let temp: ReturnType<typeof makeTempDir>;
 let dataDir: string;
@@ -29,79 +26,6 @@ beforeEach(() => {
 afterEach(() => {
   temp.remove();
 });
-
-interface Child {
-  process: ChildProcess;
-  stdout: () => string;
-  stderr: () => string;
-}
-
-function spawnMain(env: Record<string, string>): Child {
-  const childEnv: NodeJS.ProcessEnv = { ...process.env };
-  for (const name of Object.keys(childEnv)) {
-    if (name === 'PORT' || name === 'HOST' || name.startsWith('CRANKHOUSE_')) delete childEnv[name];
-  }
-  const child = spawn(process.execPath, ['--import', 'tsx', MAIN], {
-    cwd: ROOT,
-    env: { ...childEnv, CRANKHOUSE_DEMO: '0', ...env },
-    stdio: ['ignore', 'pipe', 'pipe'],
-  });
-  let out = '';
-  let err = '';
-  child.stdout?.on('data', (chunk: Buffer) => {
-    out += chunk.toString();
-  });
-  child.stderr?.on('data', (chunk: Buffer) => {
-    err += chunk.toString();
-  });
-  return { process: child, stdout: () => out, stderr: () => err };
-}
-
-function waitForOutput(child: Child, pattern: RegExp): Promise<RegExpMatchArray> {
-  return new Promise((resolve, reject) => {
-    const check = (): void => {
-      const match = child.stdout().match(pattern);
-      if (match) {
-        finish();
-        resolve(match);
-      }
-    };
-    const onExit = (code: number | null): void => {
-      finish();
-      reject(new Error(`server exited (${code}) before printing ${pattern}: ${child.stdout()} ${child.stderr()}`));
-    };
-    const timer = setTimeout(() => {
-      finish();
-      reject(new Error(`no ${pattern} within ${WAIT_MS} ms: ${child.stdout()} ${child.stderr()}`));
-    }, WAIT_MS);
-    const finish = (): void => {
-      clearTimeout(timer);
-      child.process.stdout?.off('data', check);
-      child.process.off('exit', onExit);
-    };
-    child.process.stdout?.on('data', check);
-    child.process.once('exit', onExit);
-    check();
-  });
-}
-
-function waitForExit(child: Child): Promise<{ code: number | null; signal: NodeJS.Signals | null }> {
-  const proc = child.process;
-  if (proc.exitCode !== null || proc.signalCode !== null) {
-    return Promise.resolve({ code: proc.exitCode, signal: proc.signalCode });
-  }
-  return new Promise((resolve, reject) => {
-    const timer = setTimeout(() => reject(new Error(`server did not exit within ${WAIT_MS} ms`)), WAIT_MS);
-    proc.once('exit', (code, signal) => {
-      clearTimeout(timer);
-      resolve({ code, signal });
-    });
-  });
-}
-
-function killIfRunning(child: Child): void {
-  if (child.process.exitCode === null && child.process.signalCode === null) child.process.kill('SIGKILL');
-}
 
 /** Sends a request line exactly as written, so no client normalises the path first. */
 function rawGet(port: number, target: string): Promise<string> {
@@ -263,5 +187,113 @@ describe('startServer', () => {
         { version: '0.0.0-test' },
       ),
     ).rejects.toThrow(/CRANKHOUSE_TLS_CERT file .*missing-cert\.pem/);
+  });
+});
+
+describe('demo sign-ins', () => {
+  it('should print the sign-ins at the first start and only say where they were on later starts', {
+    timeout: 180_000,
+  }, async () => {
+    const env = {
+      PORT: '0',
+      HOST: '127.0.0.1',
+      CRANKHOUSE_DATA: dataDir,
+      CRANKHOUSE_DIST: distDir,
+      CRANKHOUSE_DEMO: '1',
+      CRANKHOUSE_DEMO_PASSCODE: 'cedar-flats-7',
+    };
+    const first = spawnMain(env);
+    try {
+      const line = await waitForOutput(first, /Demo sign-ins: (.*)\n/, SEED_WAIT_MS);
+      expect(line[1]).toBe(
+        'operator / cedar-flats-7, operator2 / cedar-flats-7, mechanic / cedar-flats-7, supervisor / cedar-flats-7, admin / cedar-flats-7',
+      );
+      const url = (await waitForOutput(first, /running at (http:\/\/\S+)\n/))[1];
+      const res = await fetch(`${url}/api/v1/sessions`, {
+        method: 'POST',
+        headers: { 'Content-Type': 'application/json' },
+        body: JSON.stringify({
+          user: 'supervisor',
+          passcode: 'cedar-flats-7',
+          device: { id: 'office-1', name: 'Office' },
+        }),
+        signal: AbortSignal.timeout(WAIT_MS),
+      });
+      expect(res.status).toBe(201);
+      expect(((await res.json()) as { user: unknown }).user).toEqual({
+        id: 'supervisor',
+        name: 'Dale Whitford',
+        roles: ['supervisor'],
+      });
+      // The log (stderr) never carries a passcode.
+      expect(first.stderr()).not.toContain('cedar-flats-7');
+      first.process.kill('SIGTERM');
+      expect(await waitForExit(first)).toEqual({ code: 0, signal: null });
+    } finally {
+      killIfRunning(first);
+    }
+
+    const second = spawnMain(env);
+    try {
+      const line = await waitForOutput(second, /Demo sign-ins: (.*)\n/);
+      expect(line[1]).toBe(
+        'operator, operator2, mechanic, supervisor, admin, with the passcode set in CRANKHOUSE_DEMO_PASSCODE',
+      );
+      expect(second.stdout()).not.toContain('cedar-flats-7');
+      second.process.kill('SIGTERM');
+      await waitForExit(second);
+    } finally {
+      killIfRunning(second);
+    }
+
+    const third = spawnMain({ ...env, CRANKHOUSE_DEMO_PASSCODE: 'another-one-8' });
+    try {
+      const line = await waitForOutput(third, /Demo sign-ins: (.*)\n/);
+      expect(line[1]).toMatch(
+        /^operator, operator2, mechanic, supervisor, admin; their passcodes were shown when the demo was seeded at first start \(\d{4}-\d{2}-\d{2}T[\d:.]+Z\)$/,
+      );
+      third.process.kill('SIGTERM');
+      await waitForExit(third);
+    } finally {
+      killIfRunning(third);
+    }
+  });
+
+  it('should give each demo person a random 6-digit passcode when none is configured', {
+    timeout: 120_000,
+  }, async () => {
+    const logged: string[] = [];
+    const server = await startServer(
+      { port: 0, host: '127.0.0.1', dataDir, distDir, siteName: 'Test Flats', seedDemo: true },
+      { version: '0.0.0-test', log: (entry) => logged.push(JSON.stringify(entry)) },
+    );
+    try {
+      const signIns = server.demo?.signIns ?? [];
+      expect(signIns.map((s) => [s.user, s.roles])).toEqual([
+        ['operator', ['operator']],
+        ['operator2', ['operator']],
+        ['mechanic', ['mechanic']],
+        ['supervisor', ['supervisor']],
+        ['admin', ['admin']],
+      ]);
+      for (const s of signIns) expect(s.passcode).toMatch(/^\d{6}$/);
+      expect(server.demo?.message).toBe(`Demo sign-ins: ${signIns.map((s) => `${s.user} / ${s.passcode}`).join(', ')}`);
+      const mechanic = signIns.find((s) => s.user === 'mechanic');
+      const res = await fetch(`${server.url}/api/v1/sessions`, {
+        method: 'POST',
+        headers: { 'Content-Type': 'application/json' },
+        body: JSON.stringify({
+          user: 'mechanic',
+          passcode: mechanic?.passcode,
+          device: { id: 'tablet-2', name: 'T2' },
+        }),
+        signal: AbortSignal.timeout(WAIT_MS),
+      });
+      expect(res.status).toBe(201);
+      expect(logged.some((line) => line.includes('demo-seeded'))).toBe(true);
+      for (const s of signIns) expect(logged.join('\n')).not.toContain(`"${s.passcode}"`);
+    } finally {
+      await server.close();
+    }
   });
 });

@@ -10,10 +10,13 @@ const UUID_V4 = /^[0-9a-f]{8}-[0-9a-f]{4}-4[0-9a-f]{3}-[89ab][0-9a-f]{3}-[0-9a-f
 describe('meta, device id and first save', () => {
   it('should keep meta values and refuse the keys the store keeps itself', async () => {
     const store = await freshStore();
-    expect(await store.getMeta('pullCursor')).toBeUndefined();
-    await store.setMeta('pullCursor', { seq: 41, at: '2026-03-02T10:00:00Z' });
-    expect(await store.getMeta('pullCursor')).toEqual({ seq: 41, at: '2026-03-02T10:00:00Z' });
+    expect(await store.getMeta('lastSyncAt')).toBeUndefined();
+    await store.setMeta('lastSyncAt', { at: '2026-03-02T10:00:00Z' });
+    expect(await store.getMeta('lastSyncAt')).toEqual({ at: '2026-03-02T10:00:00Z' });
     expect((await rejection(store.setMeta('deviceId', 'mine'))).code).toBe('E_INVALID');
+    // The pull cursor moves only together with the records it covers (applyPulled), never on its own.
+    expect((await rejection(store.setMeta('pullCursor', 41))).code).toBe('E_INVALID');
+    expect(await store.pullCursor()).toBe(0);
     expect((await rejection(store.setMeta('', 1))).message).toContain('key');
     store.close();
   });

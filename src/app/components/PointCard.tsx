@@ -1,4 +1,5 @@
-import { useState } from 'preact/hooks';
+import { memo } from 'preact/compat';
+import { useEffect, useState } from 'preact/hooks';
 import type { CheckPoint, Finding } from '../../schema';
 import { type DisplayUnits, formatNumber, label } from '../models/format';
 import { entryUnits, findingsForPoint, isNumeric, plainUnit } from '../models/round-entry';
@@ -40,14 +41,33 @@ export function FindingLine(props: { finding: Finding; units: DisplayUnits; baro
 }
 
 /** One check point: its field (or buttons), unit, save state, result beside it, note and skip. */
-export function PointCard(props: {
+interface PointCardProps {
   point: CheckPoint;
   session: RoundSession;
   units: DisplayUnits;
+  /** session.versionOf(point.id): the card is drawn again only when it changes. */
+  version: string;
   onNext: () => void;
   onOpenGate: (point: CheckPoint) => void;
-}) {
+}
+
+/**
+ * One check point card. Memoised on the point's version: typing in one field redraws that card (and the cards whose
+ * findings changed), not all of the route.
+ */
+export const PointCard = memo(
+  PointCardView,
+  (before, after) =>
+    before.version === after.version &&
+    before.point === after.point &&
+    before.units === after.units &&
+    before.session === after.session,
+);
+
+function PointCardView(props: PointCardProps) {
   const { point, session } = props;
+  const [, redraw] = useState(0);
+  useEffect(() => session.subscribePoint(point.id, () => redraw((n) => n + 1)), [session, point.id]);
   const draft = session.draftFor(point);
   const reading = session.readings.get(point.id);
   const findings = findingsForPoint(point, session.findings);
@@ -90,6 +110,7 @@ export function PointCard(props: {
           onClick={() => void session.enter(point, option).then(props.onNext)}
         >
           {option}
+          <span class="visually-hidden"> — {point.label}</span>
         </button>
       ))}
     </fieldset>
@@ -125,7 +146,7 @@ export function PointCard(props: {
               data-testid={`gate-open-${point.id}`}
               onClick={() => props.onOpenGate(point)}
             >
-              Review the cautions
+              Review the cautions<span class="visually-hidden"> for {point.label}</span>
             </button>
           </div>
         ) : (
@@ -219,6 +240,7 @@ export function PointCard(props: {
             onClick={() => setNoteOpen(!noteOpen)}
           >
             {noteOpen ? 'Hide note' : draft.note ? 'Note (1)' : 'Add a note'}
+            <span class="visually-hidden"> on {point.label}</span>
           </button>
           <button
             type="button"
@@ -226,7 +248,7 @@ export function PointCard(props: {
             aria-expanded={skipOpen}
             onClick={() => setSkipOpen(!skipOpen)}
           >
-            Skip
+            Skip<span class="visually-hidden"> {point.label}</span>
           </button>
         </div>
       )}
@@ -257,11 +279,14 @@ export function PointCard(props: {
                 }}
               >
                 {reason}
+                <span class="visually-hidden"> — skip {point.label}</span>
               </button>
             ))}
           </div>
           <label class="field">
-            <span class="field__label">Other reason</span>
+            <span class="field__label">
+              Other reason<span class="visually-hidden"> for skipping {point.label}</span>
+            </span>
             <input
               class="field__input"
               type="text"
@@ -278,7 +303,7 @@ export function PointCard(props: {
               void session.skip(point, skipReason).then(props.onNext);
             }}
           >
-            Skip with this reason
+            Skip with this reason<span class="visually-hidden"> — {point.label}</span>
           </button>
         </div>
       ) : null}

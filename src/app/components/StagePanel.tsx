@@ -1,3 +1,4 @@
+import { memo } from 'preact/compat';
 import type { Finding } from '../../schema';
 import { type DisplayUnits, formatNumber } from '../models/format';
 import { FindingLine, SEVERITY_WORDS } from './PointCard';
@@ -6,7 +7,21 @@ import { FindingLine, SEVERITY_WORDS } from './PointCard';
  * The engineering results of one stage, as soon as their inputs exist: discharge temperature against prediction,
  * VE, capacity and power; each cylinder's valve covers with the suspect highlighted; each throw's rod load.
  */
-export function StagePanel(props: { findings: Finding[]; units: DisplayUnits; barometricPa: number; title: string }) {
+interface StagePanelProps {
+  findings: Finding[];
+  units: DisplayUnits;
+  barometricPa: number;
+  title: string;
+  /** Keys, severities and messages of the findings: the panel is drawn again only when it changes. */
+  signature: string;
+}
+
+export const StagePanel = memo(
+  StagePanelView,
+  (before, after) => before.signature === after.signature && before.units === after.units,
+);
+
+function StagePanelView(props: StagePanelProps) {
   const { findings, units, barometricPa } = props;
   const performance = findings.find((f) => f.rule === 'stagePerformance');
   const discharge = findings.filter(

@@ -140,7 +140,8 @@ export function findingsForPoint(point: CheckPoint, findings: readonly Finding[]
     if (finding.subject.machineId !== point.machineId) return false;
     switch (finding.rule) {
       case 'valveCovers':
-        return point.kind === 'valveCoverTemperature' && finding.subject.cylinderId === point.cylinderId;
+        // Beside the suspect cover only; the stage panel shows every cover of the cylinder in one table.
+        return point.kind === 'valveCoverTemperature' && finding.subject.valvePositionId === point.valvePositionId;
       case 'dischargeTemperature':
         return (
           point.role === 'dischargeTemperature' &&

@@ -9,7 +9,7 @@ import type { Store } from '../../store';
 import { describeStoreError } from './data';
 import { type Observable, observable } from './observable';
 import { currentPerson } from './person';
-import { convertText, isNumeric, notesStillNeeded, parseEntry } from './round-entry';
+import { convertText, findingsForPoint, isNumeric, notesStillNeeded, parseEntry } from './round-entry';
 
 export type SaveState =
   | { kind: 'idle' }
@@ -41,6 +41,10 @@ export class RoundSession {
   private readonly latestSave = new Map<string, number>();
   private saveCounter = 0;
   private unitOverrides: Record<string, string> = {};
+  /** Per point, a number that changes whenever what its card shows changes (so unchanged cards are not redrawn). */
+  private readonly pointVersions = new Map<string, number>();
+  private findingSignatures = new Map<string, string>();
+  private epoch = 0;
 
   private constructor(
     readonly store: Store,
@@ -79,7 +83,7 @@ export class RoundSession {
     for (const ack of await store.listRecords('lockoutAck')) {
       if (ack.task.roundId === round.id && ack.task.ref) session.acks.set(ack.task.ref, ack);
     }
-    session.findings = round.state === 'finished' ? await store.findingsOf(round.id) : session.evaluate();
+    session.setFindings(round.state === 'finished' ? await store.findingsOf(round.id) : session.evaluate());
     return session;
   }
 
@@ -87,12 +91,59 @@ export class RoundSession {
     return this.round.state === 'finished';
   }
 
-  private emit(): void {
-    this.version.set(this.version.get() + 1);
+  private readonly pointListeners = new Map<string, Set<() => void>>();
+  private readonly dirtyPoints = new Set<string>();
+
+  /**
+   * Tells the cards of changed points, and (unless `summary` is false) the whole screen, to draw again. A save in
+   * progress changes only its own card, so typing does not redraw the route.
+   */
+  private emit(summary = true): void {
+    const dirty = [...this.dirtyPoints];
+    this.dirtyPoints.clear();
+    for (const pointId of dirty) for (const listener of this.pointListeners.get(pointId) ?? []) listener();
+    if (summary) this.version.set(this.version.get() + 1);
+  }
+
+  /** Calls `listener` whenever the card of this point must be drawn again. */
+  subscribePoint(pointId: string, listener: () => void): () => void {
+    const set = this.pointListeners.get(pointId) ?? new Set();
+    set.add(listener);
+    this.pointListeners.set(pointId, set);
+    return () => set.delete(listener);
+  }
+
+  private touch(pointId: string): void {
+    this.pointVersions.set(pointId, (this.pointVersions.get(pointId) ?? 0) + 1);
+    this.dirtyPoints.add(pointId);
+  }
+
+  /** Changes when the card of this point must be drawn again. */
+  versionOf(pointId: string): string {
+    return `${this.epoch}:${this.pointVersions.get(pointId) ?? 0}`;
   }
 
   private evaluate(): Finding[] {
     return evaluateRound(this.config, [...this.readings.values()], this.history);
+  }
+
+  /** Sets the findings and marks the cards whose findings changed. */
+  private setFindings(findings: Finding[]): void {
+    this.findings = findings;
+    const next = new Map<string, string>();
+    for (const point of this.route.points) {
+      const signature = findingsForPoint(point, findings)
+        .map((finding) => `${finding.key}|${finding.severity}|${finding.message}`)
+        .join('\n');
+      next.set(point.id, signature);
+      if (signature !== (this.findingSignatures.get(point.id) ?? '')) this.touch(point.id);
+    }
+    this.findingSignatures = next;
+  }
+
+  private setDraft(pointId: string, draft: PointDraft): void {
+    this.drafts.set(pointId, draft);
+    this.touch(pointId);
   }
 
   /** The unit a point is entered in: remembered override, else the gauge unit of the configuration. */
@@ -135,7 +186,7 @@ export class RoundSession {
     const draft = { ...this.draftFor(point), text, unit };
     if (this.finished) return Promise.resolve();
     if (this.needsLockout(point)) {
-      this.drafts.set(point.id, {
+      this.setDraft(point.id, {
         ...draft,
         save: { kind: 'invalid', message: 'Acknowledge the cautions before this step.' },
       });
@@ -144,7 +195,7 @@ export class RoundSession {
     }
     const parsed = parseEntry(point, text, unit, this.barometricPa);
     if (!parsed.ok) {
-      this.drafts.set(point.id, { ...draft, save: { kind: 'invalid', message: parsed.message } });
+      this.setDraft(point.id, { ...draft, save: { kind: 'invalid', message: parsed.message } });
       this.emit();
       return Promise.resolve();
     }
@@ -166,7 +217,7 @@ export class RoundSession {
     const reading = this.readings.get(point.id);
     if (this.finished) return;
     if (!reading) {
-      this.drafts.set(point.id, draft);
+      this.setDraft(point.id, draft);
       this.emit();
       return;
     }
@@ -196,7 +247,7 @@ export class RoundSession {
     this.unitOverrides[point.id] = unit;
     await this.store.setMeta(UNIT_OVERRIDES_KEY, this.unitOverrides);
     const draft = this.draftFor(point);
-    this.drafts.set(point.id, { ...draft, unit, text: draft.text });
+    this.setDraft(point.id, { ...draft, unit, text: draft.text });
     const reading = this.readings.get(point.id);
     if (reading?.valueSI !== null && reading?.valueSI !== undefined && isNumeric(point) && !this.finished) {
       await this.enter(point, convertText(reading.valueSI, unit, this.barometricPa), unit);
@@ -208,17 +259,21 @@ export class RoundSession {
   private async save(point: CheckPoint, draft: PointDraft, reading: Reading): Promise<void> {
     const token = ++this.saveCounter;
     this.latestSave.set(point.id, token);
-    this.drafts.set(point.id, { ...draft, save: { kind: 'saving' } });
-    this.emit();
+    this.setDraft(point.id, { ...draft, save: { kind: 'saving' } });
+    this.emit(false);
     try {
       await this.store.saveReading(reading);
       if (this.latestSave.get(point.id) !== token) return; // a later save of this point follows
       this.readings.set(point.id, reading);
-      this.drafts.set(point.id, { ...draft, save: { kind: 'saved' } });
-      this.findings = this.evaluate();
+      this.setDraft(point.id, { ...draft, save: { kind: 'saved' } });
+      // "Saved" shows as soon as the commit is done; the checks follow once the browser has drawn it.
+      this.emit();
+      await new Promise((resolve) => setTimeout(resolve, 0));
+      if (this.latestSave.get(point.id) !== token) return;
+      this.setFindings(this.evaluate());
     } catch (error) {
       if (this.latestSave.get(point.id) !== token) return;
-      this.drafts.set(point.id, {
+      this.setDraft(point.id, {
         ...draft,
         save: { kind: 'error', message: `Not saved: ${describeStoreError(error)}` },
       });
@@ -247,6 +302,7 @@ export class RoundSession {
       createdAt: ack.completedAt,
     });
     this.acks.set(point.id, ack);
+    this.touch(point.id);
     this.emit();
   }
 
@@ -276,7 +332,8 @@ export class RoundSession {
       meta: { author: this.person.id, device: this.deviceId, createdAt: finishedAt },
     });
     this.round = { ...this.round, state: 'finished', finishedAt };
-    this.findings = findings;
+    this.epoch += 1;
+    this.setFindings(findings);
     this.emit();
   }
 

@@ -140,7 +140,7 @@ describe('progress, findings beside points and notes', () => {
     });
   });
 
-  it('should put cylinder findings beside the points that feed them', () => {
+  it('should put the valve cover finding beside the suspect cover and discharge findings beside their thermometer', () => {
     const covers = finding('valveCovers', 'alarm', {
       machineId: 'K-101',
       stageId: 'S1',
@@ -149,7 +149,8 @@ describe('progress, findings beside points and notes', () => {
     });
     const discharge = finding('dischargeTemperature', 'watch', { machineId: 'K-101', stageId: 'S1', cylinderId: 'C1' });
     const all = [covers, discharge];
-    expect(findingsForPoint(point('K-101-C1-HE-S2-T'), all)).toEqual([covers]);
+    expect(findingsForPoint(point('K-101-C1-HE-S1-T'), all)).toEqual([covers]);
+    expect(findingsForPoint(point('K-101-C1-HE-S2-T'), all)).toEqual([]);
     expect(findingsForPoint(point('K-101-C1-TD'), all)).toEqual([discharge]);
     expect(findingsForPoint(point('K-101-C2-TD'), all)).toEqual([]);
   });

@@ -97,7 +97,8 @@ function RoundView(props: {
   const units = useMemo(() => displayUnits(session.config), [session]);
   const progress = progressOf(session.route, session.readings);
   const counts = severityCounts(session.findings);
-  const needed = session.notesNeeded();
+  // Only the finish summary needs this; it walks every finding.
+  const needed = props.finishing ? session.notesNeeded() : [];
   const order = session.route.points;
 
   const next = (from: CheckPoint) => {
@@ -184,6 +185,7 @@ function RoundView(props: {
                 key={point.id}
                 point={point}
                 session={session}
+                version={session.versionOf(point.id)}
                 units={units}
                 onNext={() => next(point)}
                 onOpenGate={(p) => props.setGatePoint(p)}
@@ -193,6 +195,9 @@ function RoundView(props: {
               <StagePanel
                 title={`${machine?.name} stage ${stage.index}`}
                 findings={stageFindings(group.machineId, stageId)}
+                signature={stageFindings(group.machineId, stageId)
+                  .map((f) => `${f.key}|${f.severity}|${f.message}`)
+                  .join('\n')}
                 units={units}
                 barometricPa={session.barometricPa}
               />
