@@ -53,7 +53,7 @@ export async function roundEntry(): Promise<BenchRow[]> {
     await page.goto(server.origin);
     await waitForServiceWorkerControl(page);
     await waitForDemoImport(page, server.origin);
-    await startRound(page, server.origin, 'morning', 'Bench Operator');
+    await startRound(page, server.origin, 'morning', 'operator');
     // The leading run of numeric points (K-101's stages, covers, bearings and oil), walked with Enter.
     const entries = demoEntries('morning', 10);
     const numeric = entries.slice(

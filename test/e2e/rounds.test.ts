@@ -4,11 +4,13 @@
  * killed in the middle of entry, three times; the lockout gate and its record; accessibility with axe-core; and
  * screenshots of the round screens in both themes at both tablet orientations.
  */
+
 import { mkdirSync, mkdtempSync, readFileSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import type { Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { DEMO_PEOPLE } from '../../src/demo';
 import { type AppServer, ROOT, startAppServer } from '../support/app-server';
 import { assertChromiumInstalled, type FreshBrowser, launchFreshChromium } from '../support/chromium';
 import { contrastRatio } from '../support/contrast';
@@ -28,6 +30,7 @@ import {
   relaunch,
   STEP_MS,
   shownState,
+  signIn,
   startRound,
   typeEntry,
   waitForDemoImport,
@@ -121,6 +124,12 @@ afterAll(async () => {
   await server?.close();
 });
 
+/** The demo sign-in behind each person's name. */
+const USER_OF: Record<string, 'operator' | 'operator2'> = {
+  [DEMO_PEOPLE.operator.name]: 'operator',
+  [DEMO_PEOPLE.operator2.name]: 'operator2',
+};
+
 describe('a whole morning round with the server stopped', () => {
   it(
     'should show the findings, refuse to finish until each alarm has a note, then finish and queue the round',
@@ -129,14 +138,16 @@ describe('a whole morning round with the server stopped', () => {
       const { browser, page } = await freshTablet();
       const problems = watchPage(page);
       try {
+        // Sign in once while the server is there; the tablet then works offline as that person.
+        await signIn(page, server.origin, 'operator');
         // Offline: the server is really stopped; the app comes from the service worker's cache.
         await server.stop();
         await page.reload();
         await waitForTestIdText(page, 'site-name', DEMO_SITE_NAME);
         await waitForTestIdText(page, 'connection-state', 'Server not reachable');
 
-        const person = 'Ines Albrecht-Moyo';
-        const roundId = await startRound(page, server.origin, 'morning', person);
+        const person = DEMO_PEOPLE.operator.name;
+        const roundId = await startRound(page, server.origin, 'morning', USER_OF[person] ?? 'operator');
         const planned = faultyEntries();
         for (const entry of planned) {
           if (entry.point.lockout) {
@@ -258,8 +269,8 @@ describe('the browser killed in the middle of entry', () => {
       try {
         let page: Page;
         ({ browser, page } = await freshTablet({ profileDir }));
-        const person = 'Ruairí Okonkwo';
-        const roundId = await startRound(page, server.origin, 'morning', person);
+        const person = DEMO_PEOPLE.operator2.name;
+        const roundId = await startRound(page, server.origin, 'morning', USER_OF[person] ?? 'operator');
         const lockoutIndex = entries.findIndex((entry) => entry.point.id === 'K-101-XH-INSP');
         const answerAfter100 = entries.findIndex((entry, index) => index > 100 && entry.kind === 'answer');
         // Three kills: while a number is being typed, while a note is being saved, and just after an answer was tapped.
@@ -358,7 +369,7 @@ describe('a round in progress with findings', () => {
   let page: Page;
   let roundId: string;
   let problems: string[] = [];
-  const person = 'Halvard Nwosu';
+  const person = DEMO_PEOPLE.operator.name;
 
   const openRound = async () => {
     await page.goto(`${server.origin}/rounds/${roundId}`);
@@ -447,7 +458,7 @@ describe('a round in progress with findings', () => {
     if (!server.running) await server.start();
     ({ browser, page } = await freshTablet());
     problems = watchPage(page);
-    roundId = await startRound(page, server.origin, 'morning', person);
+    roundId = await startRound(page, server.origin, 'morning', USER_OF[person] ?? 'operator');
     // K-101's stages, covers, bearings and oil, with the three faults: findings of each kind in view.
     const upTo = entries.findIndex((entry) => entry.point.id === 'K-101-LO-LVL') + 1;
     for (const entry of faultyEntries().slice(0, upTo)) await enterPoint(page, entry);

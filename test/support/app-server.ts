@@ -28,6 +28,9 @@ export interface AppServer {
   close(): Promise<void>;
 }
 
+/** Every demo person signs in with this passcode in the tests (invented, for the test server only). */
+export const DEMO_PASSCODE = '271828';
+
 /** Starts the server with its own temp data folder and build copy; the demo site is seeded on first start. */
 export async function startAppServer(options: { siteName?: string } = {}): Promise<AppServer> {
   assertBuilt();
@@ -46,6 +49,7 @@ export async function startAppServer(options: { siteName?: string } = {}): Promi
           CRANKHOUSE_DATA: join(scratch, 'data'),
           CRANKHOUSE_DIST: distDir,
           ...(options.siteName ? { CRANKHOUSE_SITE_NAME: options.siteName } : {}),
+          CRANKHOUSE_DEMO_PASSCODE: DEMO_PASSCODE,
         },
         ROOT,
       );

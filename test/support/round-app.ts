@@ -3,10 +3,12 @@
  * operator entered on an early demo round, before the invented faults start) and the steps a person takes: wait for
  * the demo import, start a round, enter a point, pass the lockout gate, kill the browser and start it again.
  */
+
 import type { Locator, Page } from 'playwright-core';
-import { DEMO_SITE_NAME, demoHistory, OPEN_MACHINE_CAUTIONS } from '../../src/demo';
+import { DEMO_PEOPLE, DEMO_SITE_NAME, demoHistory, OPEN_MACHINE_CAUTIONS } from '../../src/demo';
 import type { CheckPoint } from '../../src/schema';
 import { DB_NAME } from '../../src/store/db';
+import { DEMO_PASSCODE } from './app-server';
 import { type FreshBrowser, launchFreshChromium } from './chromium';
 import { browserPids } from './store-page';
 
@@ -101,12 +103,30 @@ export async function waitForServiceWorkerControl(page: Page): Promise<void> {
 }
 
 /** From /rounds: types the person's name the first time, starts the route and waits for its first card. */
-export async function startRound(page: Page, origin: string, routeId: string, person: string): Promise<string> {
+/** Signs in on the Home screen as a demo person (the tablet keeps the session, so later rounds work offline). */
+export async function signIn(page: Page, origin: string, user: keyof typeof DEMO_PEOPLE): Promise<void> {
+  await page.goto(origin);
+  const form = page.getByTestId('sign-in');
+  const panel = page.getByTestId('sync-panel');
+  await form.or(panel).first().waitFor({ state: 'visible', timeout: STEP_MS });
+  if (await panel.isVisible()) return;
+  await page.getByTestId('sign-in-user').fill(DEMO_PEOPLE[user].id);
+  await page.getByTestId('sign-in-passcode').fill(DEMO_PASSCODE);
+  await page.getByTestId('sign-in-submit').click();
+  await panel.waitFor({ state: 'visible', timeout: STEP_MS });
+}
+
+/** Starts a round on a route as the signed-in demo person (signing in first if needed); returns the round id. */
+export async function startRound(
+  page: Page,
+  origin: string,
+  routeId: string,
+  user: keyof typeof DEMO_PEOPLE = 'operator',
+): Promise<string> {
+  await signIn(page, origin, user);
   await page.goto(`${origin}/rounds`);
   const start = page.getByTestId(`start-${routeId}`);
   await start.waitFor({ state: 'visible', timeout: STEP_MS });
-  const name = page.getByTestId('person-name');
-  if (await name.isVisible()) await name.fill(person);
   await start.click();
   await page.waitForURL(/\/rounds\/[0-9a-f-]{36}$/, { timeout: STEP_MS });
   await page.getByTestId('progress').waitFor({ state: 'visible', timeout: STEP_MS });

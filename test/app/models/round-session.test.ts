@@ -1,10 +1,10 @@
 import 'fake-indexeddb/auto';
 import { beforeEach, describe, expect, it } from 'vitest';
-import { setCurrentPerson } from '../../../src/app/models/person';
 import { RoundSession } from '../../../src/app/models/round-session';
 import { demoConfig, OPEN_MACHINE_CAUTIONS } from '../../../src/demo';
 import type { CheckPoint } from '../../../src/schema';
 import { openStore, type Store } from '../../../src/store';
+import { SESSION_KEY } from '../../../src/sync';
 
 const config = demoConfig();
 let store: Store;
@@ -14,7 +14,13 @@ const point = (id: string) => session.route.points.find((p) => p.id === id) as C
 beforeEach(async () => {
   store = await openStore({ name: `round-session-${Math.random().toString(36).slice(2)}` });
   await store.putConfig(config);
-  const person = await setCurrentPerson(store, 'Mara Oyelaran');
+  const person = { id: 'operator', name: 'Mara Oyelaran' };
+  await store.setMeta(SESSION_KEY, {
+    token: 'x'.repeat(43),
+    user: { ...person, roles: ['operator'] },
+    device: { id: 'tablet', name: 'Tablet' },
+    signedInAt: '2026-03-01T05:00:00Z',
+  });
   const id = crypto.randomUUID();
   await store.startRound({
     id,

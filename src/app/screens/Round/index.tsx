@@ -7,6 +7,7 @@ import { describeStoreError } from '../../models/data';
 import { useObservable } from '../../models/observable';
 import { displayUnits, groupPoints, progressOf, severityCounts } from '../../models/round-entry';
 import { RoundSession } from '../../models/round-session';
+import { requestBackgroundSync } from '../../models/sync';
 import { navigate, type ScreenProps } from '../../router';
 import { useServices } from '../../services';
 import { registerUnsavedInput } from '../../unsaved-input';
@@ -92,7 +93,7 @@ function RoundView(props: {
 }) {
   const { session } = props;
   useObservable(session.changed);
-  const { data } = useServices();
+  const { data, sync } = useServices();
   const groups = useMemo(() => groupPoints(session.config, session.route), [session]);
   const units = useMemo(() => displayUnits(session.config), [session]);
   const progress = progressOf(session.route, session.readings);
@@ -116,18 +117,29 @@ function RoundView(props: {
       await session.finish();
       props.setFinishing(false);
       await data.refresh();
+      // Send it now if the server is there; otherwise the browser may wake us when it is (background sync).
+      void sync.run('round finished');
+      void requestBackgroundSync();
       window.scrollTo(0, 0);
     } catch (e) {
       props.setFinishError(e instanceof Error ? e.message : describeStoreError(e));
     }
   };
 
-  const stageFindings = (machineId: string, stageId: string | undefined): Finding[] =>
-    stageId
-      ? session.findings.filter(
-          (f) => f.subject.machineId === machineId && f.subject.stageId === stageId && !f.subject.pointId,
-        )
-      : [];
+  // Findings per stage and their signatures, worked out once per set of findings (not on every keystroke).
+  const byStage = useMemo(() => {
+    const map = new Map<string, { findings: Finding[]; signature: string }>();
+    for (const finding of session.findings) {
+      if (!finding.subject.stageId || finding.subject.pointId) continue;
+      const key = `${finding.subject.machineId}/${finding.subject.stageId}`;
+      const entry = map.get(key) ?? { findings: [], signature: '' };
+      entry.findings.push(finding);
+      entry.signature += `${finding.key}|${finding.severity}|${finding.message}\n`;
+      map.set(key, entry);
+    }
+    return map;
+  }, [session.findings]);
+  const noFindings = { findings: [] as Finding[], signature: '' };
 
   return (
     <div class="stack round">
@@ -194,10 +206,8 @@ function RoundView(props: {
             {stage ? (
               <StagePanel
                 title={`${machine?.name} stage ${stage.index}`}
-                findings={stageFindings(group.machineId, stageId)}
-                signature={stageFindings(group.machineId, stageId)
-                  .map((f) => `${f.key}|${f.severity}|${f.message}`)
-                  .join('\n')}
+                findings={(byStage.get(`${group.machineId}/${stageId}`) ?? noFindings).findings}
+                signature={(byStage.get(`${group.machineId}/${stageId}`) ?? noFindings).signature}
                 units={units}
                 barometricPa={session.barometricPa}
               />

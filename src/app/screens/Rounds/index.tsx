@@ -1,8 +1,8 @@
 import { useEffect, useState } from 'preact/hooks';
 import type { PersonRef, Round, SiteConfig } from '../../../schema';
 import { describeStoreError } from '../../models/data';
-import { currentPerson, setCurrentPerson } from '../../models/person';
-import { navigate } from '../../router';
+import { currentPerson } from '../../models/person';
+import { Link, navigate } from '../../router';
 import { useServices } from '../../services';
 
 const when = (iso: string) => new Date(iso).toLocaleString([], { dateStyle: 'medium', timeStyle: 'short' });
@@ -13,7 +13,6 @@ export default function Rounds() {
   const [config, setConfig] = useState<SiteConfig | null | undefined>(undefined);
   const [rounds, setRounds] = useState<Round[]>([]);
   const [person, setPerson] = useState<PersonRef | null>(null);
-  const [name, setName] = useState('');
   const [error, setError] = useState<string | null>(null);
 
   useEffect(() => {
@@ -34,9 +33,8 @@ export default function Rounds() {
   const start = async (routeId: string) => {
     try {
       const store = await data.store();
-      const who = person ?? (await setCurrentPerson(store, name));
-      setPerson(who);
-      if (!config) return;
+      const who = person;
+      if (!config || !who) return;
       const id = crypto.randomUUID();
       await store.startRound({
         id,
@@ -94,23 +92,13 @@ export default function Rounds() {
         <h2 id="start-heading">Start a round</h2>
         {person ? (
           <p>
-            Rounds are recorded as <strong>{person.name}</strong>.{' '}
-            <button type="button" class="link-button" onClick={() => setPerson(null)}>
-              Not you?
-            </button>
+            Rounds are recorded as <strong>{person.name}</strong>, who is signed in on this tablet.
           </p>
         ) : (
-          <label class="field">
-            <span class="field__label">Your name, as it goes on the round</span>
-            <input
-              class="field__input"
-              type="text"
-              autocomplete="name"
-              value={name}
-              onInput={(e) => setName(e.currentTarget.value)}
-              data-testid="person-name"
-            />
-          </label>
+          <p class="warning" data-testid="sign-in-first">
+            Sign in on the <Link href="/">Home</Link> screen first: a round carries the name of the person who walked
+            it, and the server takes it only from that person.
+          </p>
         )}
         <div class="actions">
           {config.routes.map((route) => (
@@ -119,7 +107,7 @@ export default function Rounds() {
               key={route.id}
               class="button"
               data-testid={`start-${route.id}`}
-              disabled={!person && name.trim() === ''}
+              disabled={!person}
               onClick={() => void start(route.id)}
             >
               {route.name} ({route.points.length} points)
