@@ -6,11 +6,15 @@ import { UpdateBanner } from './components/UpdateBanner';
 import { Link, lazyScreen, matchPath, type ScreenProps, usePath } from './router';
 import { Home } from './screens/Home';
 
+const maintenance = lazyScreen(() => import('./screens/Maintenance'));
+
 /** Screens by address. Each screen after the first paint is its own chunk (and precached). */
 const ROUTES: Array<{ pattern: string; label?: string; screen: ComponentType<ScreenProps> }> = [
   { pattern: '/', label: 'Home', screen: Home },
   { pattern: '/rounds', label: 'Rounds', screen: lazyScreen(() => import('./screens/Rounds')) },
   { pattern: '/rounds/:id', screen: lazyScreen(() => import('./screens/Round')) },
+  { pattern: '/maintenance', label: "Mechanic's log", screen: maintenance },
+  { pattern: '/maintenance/:task', screen: maintenance },
   { pattern: '/device', label: 'This tablet', screen: lazyScreen(() => import('./screens/Device')) },
 ];
 

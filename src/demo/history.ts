@@ -317,7 +317,48 @@ function demoMaintenance(config: SiteConfig, endMs: number, days: number, random
       lockoutAckId: ack3.id,
     },
   ];
-  return { valveChanges, bearingClearances, lockoutAcks: [ack1, ack2, ack3] };
+  // The discharge valve at K-101 C1-HE-D2 keeps breaking: two more changes around the one above. (Made after the
+  // records above so that their seeded ids stay the same.)
+  const ack4 = ack({ kind: 'valveChange', machineId: 'K-101', ref: 'C1-HE-D2' }, 8);
+  const ack5 = ack({ kind: 'valveChange', machineId: 'K-101', ref: 'C1-HE-D2' }, 70);
+  valveChanges.push(
+    {
+      id: seededUuid(random),
+      machineId: 'K-101',
+      valvePositionId: 'C1-HE-D2',
+      at: at(8, 11),
+      by: DEMO_PEOPLE.mechanic,
+      reason: 'failure',
+      removedValveId: 'DV-0388',
+      installedValveId: 'DV-0417',
+      asFound: ['broken plate'],
+      partsFitted: ['complete valve', 'gaskets'],
+      capBoltTorque: { text: '340', unit: 'Nm', valueNm: 340 },
+      runHours: Math.round(runHours(41_200, 8)),
+      lockoutAckId: ack4.id,
+    },
+    {
+      id: seededUuid(random),
+      machineId: 'K-101',
+      valvePositionId: 'C1-HE-D2',
+      at: at(70, 10),
+      by: DEMO_PEOPLE.mechanic,
+      reason: 'failure',
+      removedValveId: 'DV-0562',
+      installedValveId: 'DV-0601',
+      asFound: ['broken springs', 'flutter marks'],
+      partsFitted: ['springs', 'plates', 'gaskets'],
+      capBoltTorque: { text: '340', unit: 'Nm', valueNm: 340 },
+      runHours: Math.round(runHours(41_200, 70)),
+      notes: 'Light flutter marks: the valve may be over-sprung for this duty; raised with engineering.',
+      lockoutAckId: ack5.id,
+    },
+  );
+  valveChanges.sort((a, b) => Date.parse(a.at) - Date.parse(b.at));
+  const lockoutAcks = [ack1, ack2, ack3, ack4, ack5].sort(
+    (a, b) => Date.parse(a.completedAt) - Date.parse(b.completedAt),
+  );
+  return { valveChanges, bearingClearances, lockoutAcks };
 }
 
 /** The demo history as sync envelopes, as the server seed and a tablet import take it. */

@@ -48,7 +48,7 @@ describe('demo history', () => {
   it('should hold a morning and a night round for each of the 90 days, every record valid', () => {
     expect(history.rounds).toHaveLength(DEMO_DAYS * 2);
     const envelopes = demoEnvelopes(history);
-    expect(envelopes).toHaveLength(history.rounds.length + 3 + 2 + 1);
+    expect(envelopes).toHaveLength(history.rounds.length + 5 + 4 + 1);
     for (const envelope of envelopes) expect(() => parseEnvelope(envelope)).not.toThrow();
   });
 
@@ -100,10 +100,12 @@ describe('demo history', () => {
     expect(before).toEqual([]);
   });
 
-  it('should carry two valve changes and one bearing clearance check, each behind an acknowledged lockout', () => {
+  it('should carry four valve changes and one bearing clearance check, each behind an acknowledged lockout', () => {
     expect(history.valveChanges.map((v) => [v.machineId, v.valvePositionId, v.reason])).toEqual([
       ['K-101', 'C1-HE-D2', 'failure'],
+      ['K-101', 'C1-HE-D2', 'failure'],
       ['K-102', 'C2-CE-S1', 'planned'],
+      ['K-101', 'C1-HE-D2', 'failure'],
     ]);
     expect(history.bearingClearances[0]?.result.status).toBe('ok');
     const acks = new Map(history.lockoutAcks.map((a) => [a.id, a]));

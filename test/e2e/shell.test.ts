@@ -182,6 +182,10 @@ describe('app shell in Chromium', () => {
       'lockoutAck',
       'lockoutAck',
       'lockoutAck',
+      'lockoutAck',
+      'lockoutAck',
+      'valveChange',
+      'valveChange',
       'valveChange',
       'valveChange',
     ]);

@@ -24,15 +24,15 @@ const FIRST_START = new Date('2026-12-01T17:00:00Z');
 describe('seedDemoSite', () => {
   it('should seed the demo configuration and every demo record once, ending on the day of the first start', async () => {
     const result = await seedDemoSite(db, { now: FIRST_START, passcode: 'demo-pass-1' });
-    // 90 days × 2 rounds, 3 lockout acknowledgements, 2 valve changes, 1 bearing clearance check
+    // 90 days × 2 rounds, 5 lockout acknowledgements, 4 valve changes, 1 bearing clearance check
     expect(result.seeded).toBe(true);
-    expect(result.records).toBe(186);
+    expect(result.records).toBe(190);
     expect(latestConfig(db)?.name).toBe(DEMO_SITE_NAME);
     const last = db.prepare("SELECT max(created_at) AS t FROM records WHERE type = 'round'").get() as { t: string };
     expect(last.t < '2026-12-01T00:00:00Z').toBe(true);
     expect(last.t > '2026-11-30T00:00:00Z').toBe(true);
     expect(await seedDemoSite(db)).toEqual({ seeded: false, records: 0, signIns: [] });
-    expect(recordCount(db)).toBe(186);
+    expect(recordCount(db)).toBe(190);
   }, 60_000);
 
   it('should create the five demo people with their roles and the configured passcode', async () => {
@@ -94,6 +94,6 @@ describe('seedDemoSite', () => {
       /records are immutable/,
     );
     expect(() => db.prepare('DELETE FROM records WHERE seq = 1').run()).toThrow(/records are immutable/);
-    expect(recordCount(db)).toBe(186);
+    expect(recordCount(db)).toBe(190);
   }, 60_000);
 });
