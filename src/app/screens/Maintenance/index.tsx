@@ -818,7 +818,7 @@ function History({ context, machine }: { context: MaintenanceContext; machine: M
                 {h.life?.basis === 'run-hours' ? 'run-hour meter' : 'calendar hours'})
               </h3>
               {h.problem ? <p class="warning">{h.problem}</p> : null}
-              <table class="table">
+              <table class="table" data-testid={`changes-${h.positionId}`}>
                 <caption class="visually-hidden">Changes at {h.positionId}</caption>
                 <thead>
                   <tr>
