@@ -5,13 +5,14 @@
  * accessibility with axe-core.
  */
 
-import { mkdtempSync, readFileSync, rmSync } from 'node:fs';
+import { mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import type { Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { DEMO_PEOPLE } from '../../src/demo';
-import { type AppServer, ROOT, startAppServer } from '../support/app-server';
+import { type AppServer, startAppServer } from '../support/app-server';
+import { axeReport } from '../support/axe';
 import { assertChromiumInstalled, type FreshBrowser, launchFreshChromium } from '../support/chromium';
 import {
   DEMO_SITE_NAME,
@@ -27,7 +28,6 @@ import {
   waitForTestIdText,
 } from '../support/round-app';
 
-const axeSource = readFileSync(join(ROOT, 'node_modules', 'axe-core', 'axe.min.js'), 'utf8');
 const LONG_TEST_MS = 300_000;
 const mechanic = DEMO_PEOPLE.mechanic.name;
 
@@ -81,22 +81,7 @@ async function passGate(): Promise<void> {
 
 /** axe-core over the whole document; only serious and critical violations are returned. */
 async function axeViolations(): Promise<string[]> {
-  // The page's CSP forbids inline scripts, so axe is evaluated through the DevTools protocol, not a script tag.
-  if (!(await page.evaluate(() => 'axe' in window))) await page.evaluate(axeSource);
-  const result = await page.evaluate(async () => {
-    const axe = (window as unknown as { axe: typeof import('axe-core') }).axe;
-    const run = await axe.run(document, { resultTypes: ['violations'] });
-    const serious = run.violations
-      .filter((violation) => violation.impact === 'serious' || violation.impact === 'critical')
-      .map(
-        (violation) =>
-          `${violation.impact} ${violation.id}: ${violation.help} at ${violation.nodes
-            .slice(0, 3)
-            .map((node) => node.target.join(' '))
-            .join(', ')}`,
-      );
-    return { passedRules: run.passes.length, serious };
-  });
+  const result = await axeReport(page);
   // axe really looked: a page like this passes many of its rules (contrast, names, landmarks, lists, …).
   expect(result.passedRules).toBeGreaterThan(15);
   return result.serious;
