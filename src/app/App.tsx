@@ -15,6 +15,7 @@ const ROUTES: Array<{ pattern: string; label?: string; screen: ComponentType<Scr
   { pattern: '/rounds/:id', screen: lazyScreen(() => import('./screens/Round')) },
   { pattern: '/maintenance', label: "Mechanic's log", screen: maintenance },
   { pattern: '/maintenance/:task', screen: maintenance },
+  { pattern: '/review', label: 'Review', screen: lazyScreen(() => import('./screens/Review')) },
   { pattern: '/device', label: 'This tablet', screen: lazyScreen(() => import('./screens/Device')) },
 ];
 
