@@ -16,6 +16,7 @@ const ROUTES: Array<{ pattern: string; label?: string; screen: ComponentType<Scr
   { pattern: '/maintenance', label: "Mechanic's log", screen: maintenance },
   { pattern: '/maintenance/:task', screen: maintenance },
   { pattern: '/review', label: 'Review', screen: lazyScreen(() => import('./screens/Review')) },
+  { pattern: '/export', screen: lazyScreen(() => import('./screens/Export')) },
   { pattern: '/device', label: 'This tablet', screen: lazyScreen(() => import('./screens/Device')) },
 ];
 

@@ -152,6 +152,11 @@ function RoundView(props: {
           {session.round.by.name} · started {new Date(session.round.startedAt).toLocaleString()}
           {session.round.finishedAt ? ` · finished ${new Date(session.round.finishedAt).toLocaleString()}` : ''}
         </p>
+        {session.finished ? (
+          <button type="button" class="button button--quiet" onClick={() => window.print()} data-testid="print-round">
+            Print the round report
+          </button>
+        ) : null}
         <div class="progress" data-testid="progress">
           <progress max={progress.total} value={progress.done + progress.skipped} aria-label="Round progress" />
           <p>
