@@ -7,6 +7,7 @@ import { Link, lazyScreen, matchPath, type ScreenProps, usePath } from './router
 import { Home } from './screens/Home';
 
 const maintenance = lazyScreen(() => import('./screens/Maintenance'));
+const trends = lazyScreen(() => import('./screens/Trends'));
 
 /** Screens by address. Each screen after the first paint is its own chunk (and precached). */
 const ROUTES: Array<{ pattern: string; label?: string; screen: ComponentType<ScreenProps> }> = [
@@ -16,6 +17,10 @@ const ROUTES: Array<{ pattern: string; label?: string; screen: ComponentType<Scr
   { pattern: '/maintenance', label: "Mechanic's log", screen: maintenance },
   { pattern: '/maintenance/:task', screen: maintenance },
   { pattern: '/review', label: 'Review', screen: lazyScreen(() => import('./screens/Review')) },
+  { pattern: '/trends', label: 'Trends', screen: trends },
+  { pattern: '/trends/:pointId', screen: trends },
+  { pattern: '/trends/covers/:machineId/:cylinderId', screen: trends },
+  { pattern: '/trends/bearings/:machineId', screen: trends },
   { pattern: '/export', screen: lazyScreen(() => import('./screens/Export')) },
   { pattern: '/device', label: 'This tablet', screen: lazyScreen(() => import('./screens/Device')) },
 ];

@@ -8,15 +8,14 @@ import { DEMO_PEOPLE } from '../../src/demo';
 import { type AppServer, startAppServer } from '../support/app-server';
 import { assertChromiumInstalled, type FreshBrowser, launchFreshChromium } from '../support/chromium';
 import {
-  addNote,
   DEMO_SITE_NAME,
   firstPage,
+  recordNightRound,
   STEP_MS,
   signIn,
-  startRound,
+  syncUntilSent,
   waitForDemoImport,
   waitForServiceWorkerControl,
-  waitForTestIdText,
 } from '../support/round-app';
 
 let server: AppServer;
@@ -43,29 +42,6 @@ async function tablet(user: keyof typeof DEMO_PEOPLE): Promise<Page> {
   return page;
 }
 
-/** A short night round: a hot main bearing (alarm, with the note it then needs), the rest recorded as not read. */
-async function recordRound(page: Page, bearingC: string, note: string): Promise<string> {
-  const roundId = await startRound(page, server.origin, 'night');
-  await page.getByTestId('input-K-101-LO-T').fill('55');
-  await waitForTestIdText(page, 'save-K-101-LO-T', 'Saved');
-  await page.getByTestId('input-K-101-MB2-T').fill(bearingC);
-  await waitForTestIdText(page, 'save-K-101-MB2-T', 'Saved');
-  await addNote(page, 'K-101-MB2-T', note);
-  await page.getByTestId('finish-open').click();
-  await page.getByTestId('finish-confirm').click();
-  await page.getByRole('heading', { name: /\(finished\)$/ }).waitFor({ timeout: STEP_MS });
-  return roundId;
-}
-
-async function syncUntilSent(page: Page): Promise<void> {
-  await page.goto(server.origin);
-  await page.getByTestId('sync-now').click();
-  await waitForTestIdText(page, 'sync-pending', '0');
-  await page.waitForFunction(() => document.querySelector('[data-testid="sync-last"]')?.textContent !== 'never', null, {
-    timeout: STEP_MS,
-  });
-}
-
 describe('two tablets offline, then a supervisor', () => {
   it("should bring both tablets' rounds and findings to the supervisor's tablet", async () => {
     const first = await tablet('operator');
@@ -73,8 +49,18 @@ describe('two tablets offline, then a supervisor', () => {
 
     await server.stop();
     // source: demo limits, main bearing alarm 93 °C (a placeholder for the frame maker's value; common practice)
-    const roundA = await recordRound(first, '96', 'MB2 hot to the touch; oil flow checked, shift lead told.');
-    const roundB = await recordRound(second, '97', 'MB2 still hot on the night round; maintenance called.');
+    const roundA = await recordNightRound(
+      first,
+      server.origin,
+      '96',
+      'MB2 hot to the touch; oil flow checked, shift lead told.',
+    );
+    const roundB = await recordNightRound(
+      second,
+      server.origin,
+      '97',
+      'MB2 still hot on the night round; maintenance called.',
+    );
     for (const page of [first, second]) {
       await page.goto(`${server.origin}/device`);
       await page.waitForFunction(() => /Waiting to be sent[1-9]/.test(document.body.textContent ?? ''), null, {
@@ -83,8 +69,8 @@ describe('two tablets offline, then a supervisor', () => {
     }
 
     await server.start();
-    await syncUntilSent(first);
-    await syncUntilSent(second);
+    await syncUntilSent(first, server.origin);
+    await syncUntilSent(second, server.origin);
 
     const supervisor = await tablet('supervisor');
     await supervisor.getByTestId('sync-now').click();

@@ -279,3 +279,27 @@ export function relaunch(profileDir: string, viewport = { width: 1280, height: 8
 export async function firstPage(browser: FreshBrowser): Promise<Page> {
   return browser.context.pages()[0] ?? (await browser.context.newPage());
 }
+
+/** A short night round: a hot main bearing (alarm, with the note it then needs), the rest recorded as not read. */
+export async function recordNightRound(page: Page, origin: string, bearingC: string, note: string): Promise<string> {
+  const roundId = await startRound(page, origin, 'night');
+  await page.getByTestId('input-K-101-LO-T').fill('55');
+  await waitForTestIdText(page, 'save-K-101-LO-T', 'Saved');
+  await page.getByTestId('input-K-101-MB2-T').fill(bearingC);
+  await waitForTestIdText(page, 'save-K-101-MB2-T', 'Saved');
+  await addNote(page, 'K-101-MB2-T', note);
+  await page.getByTestId('finish-open').click();
+  await page.getByTestId('finish-confirm').click();
+  await page.getByRole('heading', { name: /\(finished\)$/ }).waitFor({ timeout: STEP_MS });
+  return roundId;
+}
+
+/** Syncs from the Home screen until nothing waits to be sent and a sync has completed. */
+export async function syncUntilSent(page: Page, origin: string): Promise<void> {
+  await page.goto(origin);
+  await page.getByTestId('sync-now').click();
+  await waitForTestIdText(page, 'sync-pending', '0');
+  await page.waitForFunction(() => document.querySelector('[data-testid="sync-last"]')?.textContent !== 'never', null, {
+    timeout: STEP_MS,
+  });
+}

@@ -150,6 +150,7 @@ function drawLimits(limits: readonly ChartLimit[], unit: string, colours: Colour
     const { left, top, width, height } = u.bbox;
     ctx.save();
     ctx.font = `${Math.round(15 * ratio)}px ${colours.font}`;
+    const drawn: string[] = [];
     for (const limit of limits) {
       const y = Math.round(u.valToPos(limit.value, 'y', true));
       if (y < top || y > top + height) continue;
@@ -175,8 +176,11 @@ function drawLimits(limits: readonly ChartLimit[], unit: string, colours: Colour
       ctx.textAlign = 'left';
       ctx.textBaseline = 'middle';
       ctx.fillText(text, x, boxTop + lineHeight / 2);
+      drawn.push(text);
     }
     ctx.restore();
+    // Which limit lines are on the canvas, for the browser tests (a canvas has no DOM to inspect).
+    u.root.dataset.drawnLimits = drawn.join('|');
   };
 }
 
@@ -284,6 +288,13 @@ export function TrendChart(props: { trend: PointTrend; title?: string }) {
       <div class="trend-chart__canvas" data-testid="trend-canvas" ref={host} aria-hidden="true" />
       <p class="trend-chart__summary">
         <span data-testid="trend-summary">{trend.summary}</span>
+        {trend.limits.length ? (
+          <span data-testid="trend-limits">
+            {' '}
+            Limits:{' '}
+            {trend.limits.map((l) => `${LEVEL_WORDS[l.level]} ${l.side} ${showValue(l.value, trend.unit)}`).join(', ')}.
+          </span>
+        ) : null}
         {trend.projection ? (
           <>
             {' '}
