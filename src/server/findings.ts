@@ -214,6 +214,8 @@ export interface ServerFinding {
   roundFinishedAt: string;
   author: string;
   reviewState: 'open' | 'reviewed';
+  /** Set when the device's own evaluation of this finding differed (null device severity: the device had none). */
+  mismatch: { deviceSeverity: Severity | null; serverSeverity: Severity } | null;
   latestReview: {
     id: string;
     disposition: string;
@@ -240,6 +242,8 @@ interface FindingRow {
   by_name: string | null;
   comment: string | null;
   review_at: string | null;
+  device_severity: Severity | null;
+  mismatched: number;
 }
 
 /** The supervisor's findings list: server findings, newest round first, with the latest review of each. */
@@ -250,7 +254,11 @@ export class FindingsQuery {
     this.select = db.prepare<Record<string, string | number | null>, FindingRow>(
       `SELECT f.round_id, f.key, f.rule, f.machine_id, f.subject, f.severity, f.message, f.numbers,
               f.round_finished_at, f.author,
-              r.id AS review_id, v.disposition, v.by_id, v.by_name, v.comment, v.at AS review_at
+              r.id AS review_id, v.disposition, v.by_id, v.by_name, v.comment, v.at AS review_at,
+              (SELECT m.device_severity FROM finding_mismatches m
+                WHERE m.round_id = f.round_id AND m.key = f.key LIMIT 1) AS device_severity,
+              EXISTS (SELECT 1 FROM finding_mismatches m
+                WHERE m.round_id = f.round_id AND m.key = f.key) AS mismatched
        FROM server_findings f
        LEFT JOIN finding_reviews v ON v.record_seq = (
          SELECT record_seq FROM finding_reviews WHERE finding_key = f.key ORDER BY at_ms DESC, record_seq DESC LIMIT 1)
@@ -288,6 +296,7 @@ export class FindingsQuery {
         roundFinishedAt: row.round_finished_at,
         author: row.author,
         reviewState: row.review_id === null ? 'open' : 'reviewed',
+        mismatch: row.mismatched ? { deviceSeverity: row.device_severity, serverSeverity: row.severity } : null,
         latestReview:
           row.review_id === null
             ? null

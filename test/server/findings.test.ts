@@ -20,6 +20,7 @@ interface Listed {
   roundFinishedAt: string;
   author: string;
   reviewState: 'open' | 'reviewed';
+  mismatch: { deviceSeverity: string | null; serverSeverity: string } | null;
   latestReview: { id: string; disposition: string; by: { id: string; name: string }; at: string } | null;
 }
 
@@ -92,6 +93,32 @@ describe('GET /api/v1/findings', () => {
     expect(byKey.get(oilKey(r2, 'K-101'))).toMatchObject({ severity: 'watch' });
     expect(byKey.get(oilKey(r3, 'K-301'))).toMatchObject({ severity: 'alarm', machineId: 'K-301' });
     expect(Object.keys(byKey.get(oilKey(r0, 'K-101'))?.numbers ?? {}).length).toBeGreaterThan(0);
+  });
+
+  it("should mark the findings where the server's recomputation disagreed with the device", async () => {
+    const { fixture, r0, r1, supervisor } = await site();
+    const all = await list(fixture, supervisor);
+    const byKey = new Map(all.map((f) => [f.key, f]));
+    // The fixture changed the oil pressures after the device had evaluated the round, so the device's own finding
+    // (as sent in the record) no longer matches what the server computes from the readings.
+    for (const [round, serverSeverity] of [
+      [r0, 'trip'],
+      [r1, 'alarm'],
+    ] as const) {
+      const sent = round.body.findings.find((f) => f.key === oilKey(round, 'K-101'));
+      expect(sent?.severity).not.toBe(serverSeverity);
+      expect(byKey.get(oilKey(round, 'K-101'))?.mismatch).toEqual({
+        deviceSeverity: sent?.severity ?? null,
+        serverSeverity,
+      });
+    }
+    // Findings the device computed the same way carry no mark.
+    const agreed = all.filter((f) => {
+      const sent = [r0, r1].find((r) => r.id === f.roundId)?.body.findings.find((d) => d.key === f.key);
+      return sent !== undefined && sent.severity === f.severity;
+    });
+    expect(agreed.length).toBeGreaterThan(0);
+    expect(agreed.every((f) => f.mismatch === null)).toBe(true);
   });
 
   it('should filter by minimum severity and by machine', async () => {
