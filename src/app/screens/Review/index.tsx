@@ -17,6 +17,7 @@ import {
 } from '../../models/findings-board';
 import { currentPerson } from '../../models/person';
 import { displayUnits } from '../../models/round-entry';
+import { type Disagreement, type DisagreementResult, serverDisagreements } from '../../models/server-findings';
 import { requestBackgroundSync } from '../../models/sync';
 import { Link, type ScreenProps } from '../../router';
 import { useServices } from '../../services';
@@ -42,12 +43,14 @@ export default function Review(_props: ScreenProps) {
   const [loaded, setLoaded] = useState<Loaded | string | null>(null);
   const [filter, setFilter] = useState<BoardFilter>({ states: ['open', 'acknowledged'] });
   const [shown, setShown] = useState(PAGE);
+  const [server, setServer] = useState<DisagreementResult | null>(null);
   const reload = async () => {
     try {
       const store = await data.store();
       const config = await store.getConfig();
       if (!config) return setLoaded('No site configuration on this tablet yet: connect to the site network once.');
       setLoaded({ store, config, items: await loadBoard(store) });
+      void serverDisagreements(store).then(setServer);
     } catch (error) {
       setLoaded(describeStoreError(error));
     }
@@ -186,6 +189,13 @@ export default function Review(_props: ScreenProps) {
           {filtered.items.length} findings: {counts.trip} trip, {counts.alarm} alarm, {counts.watch} watch;{' '}
           {counts.open} open, {counts.acknowledged} acknowledged, {counts.closed} closed.
         </p>
+        <p data-testid="server-check">
+          {server === null
+            ? 'Asking the site server for its own evaluation of these rounds…'
+            : server.state === 'checked'
+              ? `The site server recomputed every round it holds: ${server.byKey.size} ${server.byKey.size === 1 ? 'finding differs' : 'findings differ'} from what the tablet computed, marked below.`
+              : `Not compared with the site server's own evaluation (${server.reason}).`}
+        </p>
         <div class="actions">
           <Link href="/trends" class="button button--quiet">
             Trends
@@ -202,6 +212,7 @@ export default function Review(_props: ScreenProps) {
               item={item}
               config={config}
               store={loaded.store}
+              disagreement={server?.state === 'checked' ? (server.byKey.get(item.finding.key) ?? null) : null}
               onSaved={() => {
                 void reload();
                 void sync.run('review saved');
@@ -220,7 +231,13 @@ export default function Review(_props: ScreenProps) {
   );
 }
 
-function BoardCard(props: { item: BoardItem; config: SiteConfig; store: Store; onSaved: () => void }) {
+function BoardCard(props: {
+  item: BoardItem;
+  config: SiteConfig;
+  store: Store;
+  disagreement: Disagreement | null;
+  onSaved: () => void;
+}) {
   const { item, config, store } = props;
   const [open, setOpen] = useState(false);
   const [readings, setReadings] = useState<Reading[] | null>(null);
@@ -288,9 +305,17 @@ function BoardCard(props: { item: BoardItem; config: SiteConfig; store: Store; o
           {' '}
           · round {when(item.round.startedAt)} by {item.round.by.name} · {item.state}
           {item.latest ? ` (${item.latest.by.name})` : ''}
+          {props.disagreement ? ' · server differs' : ''}
         </span>
       </summary>
       <div class="stack">
+        {props.disagreement ? (
+          <p class="warning" data-testid={`mismatch-${item.finding.key}`}>
+            The site server computed this otherwise: {props.disagreement.serverSeverity} on the server,{' '}
+            {props.disagreement.deviceSeverity ?? 'no finding'} on the tablet that recorded it. Check the readings and
+            the configuration version before deciding.
+          </p>
+        ) : null}
         <FindingLine finding={item.finding} units={units} barometricPa={barometricPa} />
         {readings === null ? (
           <p class="loading">Loading the round's readings…</p>
