@@ -237,6 +237,28 @@ describe('supervisor review', () => {
   );
 
   it(
+    'should show the machine view: stages, power curve, rod load per throw and modelled PV loops',
+    async () => {
+      await supervisor.goto(`${server.origin}/machines/K-101`);
+      await supervisor.getByTestId('machine-view').waitFor({ state: 'visible', timeout: STEP_MS });
+      for (const testId of ['power-curve', 'rod-load-1', 'pv-C1-head', 'pv-C1-crank']) {
+        await supervisor.getByTestId(testId).first().waitFor({ state: 'visible', timeout: STEP_MS });
+      }
+      // Every chart says what it drew on its canvas (lines and markers), and has a text alternative beside it.
+      const drawn = await supervisor
+        .locator('[data-drawn]')
+        .evaluateAll((charts) => charts.map((chart) => chart.getAttribute('data-drawn') ?? ''));
+      expect(drawn.length).toBeGreaterThan(2);
+      expect(drawn.every((d) => d.length > 0)).toBe(true);
+      expect((await supervisor.getByTestId('power-curve-summary').first().textContent())?.length ?? 0).toBeGreaterThan(
+        20,
+      );
+      await expectNoSeriousAxe(supervisor);
+    },
+    LONG_TEST_MS,
+  );
+
+  it(
     'should pass axe-core on the board, an opened finding and the exports',
     async () => {
       await openBoard(supervisor);

@@ -197,6 +197,11 @@ export default function Review(_props: ScreenProps) {
               : `Not compared with the site server's own evaluation (${server.reason}).`}
         </p>
         <div class="actions">
+          {config.machines.map((m) => (
+            <Link key={m.id} href={`/machines/${m.id}`} class="button button--quiet">
+              {m.name}: performance
+            </Link>
+          ))}
           <Link href="/trends" class="button button--quiet">
             Trends
           </Link>
