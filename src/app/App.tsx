@@ -22,6 +22,7 @@ const ROUTES: Array<{ pattern: string; label?: string; screen: ComponentType<Scr
   { pattern: '/trends/covers/:machineId/:cylinderId', screen: trends },
   { pattern: '/trends/bearings/:machineId', screen: trends },
   { pattern: '/machines/:machineId', screen: lazyScreen(() => import('./screens/Machine')) },
+  { pattern: '/valve-life', screen: lazyScreen(() => import('./screens/ValveLife')) },
   { pattern: '/export', screen: lazyScreen(() => import('./screens/Export')) },
   { pattern: '/device', label: 'This tablet', screen: lazyScreen(() => import('./screens/Device')) },
 ];

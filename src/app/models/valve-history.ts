@@ -4,7 +4,7 @@
  * valves ranked first. Pure; the statistics come from calc's valveLife.
  */
 import { CalcError, type ValveLifeResult, valveLife } from '../../calc';
-import type { Machine, ValveChange } from '../../schema';
+import type { Machine, SiteConfig, ValveChange } from '../../schema';
 
 export interface PositionHistory {
   positionId: string;
@@ -76,4 +76,27 @@ export function rankPositions(histories: readonly PositionHistory[]): PositionHi
         mean(a) - mean(b) ||
         a.positionId.localeCompare(b.positionId),
     );
+}
+
+/** Every valve position of the site that has had a change, worst first: most failures, then shortest life. */
+export function siteValveLife(
+  config: SiteConfig,
+  changes: readonly ValveChange[],
+  now: string,
+): Array<PositionHistory & { machineId: string; machineName: string }> {
+  const all = config.machines.flatMap((machine) =>
+    rankPositions(positionHistories(machine, changes, now)).map((h) => ({
+      ...h,
+      machineId: machine.id,
+      machineName: machine.name,
+    })),
+  );
+  const mean = (h: PositionHistory) => h.life?.meanTimeBetweenChangesH ?? Number.POSITIVE_INFINITY;
+  return all.sort(
+    (a, b) =>
+      (b.life?.failures ?? 0) - (a.life?.failures ?? 0) ||
+      mean(a) - mean(b) ||
+      a.machineId.localeCompare(b.machineId) ||
+      a.positionId.localeCompare(b.positionId),
+  );
 }

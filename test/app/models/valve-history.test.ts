@@ -5,7 +5,7 @@
  * reliability definitions (common practice).
  */
 import { describe, expect, it } from 'vitest';
-import { positionHistories, rankPositions } from '../../../src/app/models/valve-history';
+import { positionHistories, rankPositions, siteValveLife } from '../../../src/app/models/valve-history';
 import { demoHistory } from '../../../src/demo';
 
 const END = '2026-11-30T00:00:00.000Z';
@@ -68,5 +68,12 @@ describe('valve position history from the demo', () => {
   it('reports a tablet clock before the last change as a problem instead of throwing', () => {
     const future = positionHistories(machine('K-101'), history.valveChanges, new Date(dayAt(60, 0)).toISOString());
     expect(future.find((h) => h.positionId === 'C1-HE-D2')?.problem).toMatch(/before the last recorded change/);
+  });
+
+  it('ranks the whole site: the failing K-101 valve first, then the planned change on K-102', () => {
+    const site = siteValveLife(history.config, history.valveChanges, now);
+    expect(site.map((h) => `${h.machineId}/${h.positionId}`)).toEqual(['K-101/C1-HE-D2', 'K-102/C2-CE-S1']);
+    expect(site[0]?.life?.failures).toBe(3);
+    expect(site[1]?.life?.failures).toBe(0);
   });
 });

@@ -202,6 +202,9 @@ export default function Review(_props: ScreenProps) {
               {m.name}: performance
             </Link>
           ))}
+          <Link href="/valve-life" class="button button--quiet">
+            Valve life
+          </Link>
           <Link href="/trends" class="button button--quiet">
             Trends
           </Link>

@@ -1,0 +1,79 @@
+import { useEffect, useState } from 'preact/hooks';
+import { describeStoreError } from '../../models/data';
+import { siteValveLife } from '../../models/valve-history';
+import { Link, type ScreenProps } from '../../router';
+import { useServices } from '../../services';
+
+const hours = (h: number | null | undefined) =>
+  h === null || h === undefined ? '–' : `${Math.round(h).toLocaleString()} h`;
+
+/** The site's valve life, for the supervisor: read-only, from the valve changes the tablet holds. */
+export default function ValveLife(_props: ScreenProps) {
+  const { data } = useServices();
+  const [rows, setRows] = useState<ReturnType<typeof siteValveLife> | string | null>(null);
+  useEffect(() => {
+    void (async () => {
+      try {
+        const store = await data.store();
+        const config = await store.getConfig();
+        if (!config) return setRows('No site configuration on this tablet yet: connect to the site network once.');
+        setRows(siteValveLife(config, await store.listRecords('valveChange'), new Date().toISOString()));
+      } catch (error) {
+        setRows(describeStoreError(error));
+      }
+    })();
+  }, [data]);
+  if (rows === null) return <p class="loading">Loading…</p>;
+  if (typeof rows === 'string') {
+    return (
+      <section class="card card--watch">
+        <h2>Valve life cannot open</h2>
+        <p>{rows}</p>
+      </section>
+    );
+  }
+  return (
+    <section class="card" aria-labelledby="valve-life-heading" data-testid="site-valve-life">
+      <h2 id="valve-life-heading">Valve life across the site</h2>
+      <p>
+        Positions with at least one valve change, the ones that eat valves first: most as-found failures, then the
+        shortest mean time between changes. Fewer than three changes give an indicative figure only. Details per
+        position are in the <Link href="/maintenance/history">mechanic's valve position history</Link>.
+      </p>
+      {rows.length === 0 ? (
+        <p>No valve changes recorded yet.</p>
+      ) : (
+        <table class="table">
+          <caption class="visually-hidden">Valve positions ranked by failures and shortest life</caption>
+          <thead>
+            <tr>
+              <th scope="col">Machine</th>
+              <th scope="col">Position</th>
+              <th scope="col">Changes</th>
+              <th scope="col">Failures</th>
+              <th scope="col">Mean between changes</th>
+              <th scope="col">Counting the valve in service</th>
+              <th scope="col">As found</th>
+            </tr>
+          </thead>
+          <tbody>
+            {rows.map((h) => (
+              <tr key={`${h.machineId}/${h.positionId}`} data-testid={`life-${h.machineId}-${h.positionId}`}>
+                <td>{h.machineName}</td>
+                <th scope="row">{h.positionId}</th>
+                <td>{h.changes.length}</td>
+                <td>{h.life?.failures ?? '–'}</td>
+                <td>
+                  {hours(h.life?.meanTimeBetweenChangesH)}
+                  {h.life?.indicative ? ' (indicative)' : ''}
+                </td>
+                <td>{hours(h.life?.censoredMeanH)}</td>
+                <td>{h.failuresByWord.map((w) => `${w.word} × ${w.count}`).join(', ') || '–'}</td>
+              </tr>
+            ))}
+          </tbody>
+        </table>
+      )}
+    </section>
+  );
+}
