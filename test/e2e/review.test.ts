@@ -268,6 +268,13 @@ describe('supervisor review', () => {
       await supervisor.goto(`${server.origin}/export`);
       await supervisor.getByTestId('exceptions-report').waitFor({ state: 'visible', timeout: STEP_MS });
       await expectNoSeriousAxe(supervisor);
+      // The site's valve life: the demo's K-101 C1-HE-D2 failed three times (days 8, 20 and 70 of the demo story).
+      await supervisor.goto(`${server.origin}/valve-life`);
+      const worst = supervisor.getByTestId('site-valve-life').locator('tbody tr').first();
+      await worst.waitFor({ state: 'visible', timeout: STEP_MS });
+      expect(await worst.getAttribute('data-testid')).toBe('life-K-101-C1-HE-D2');
+      expect((await worst.locator('td').allTextContents())[2]).toBe('3');
+      await expectNoSeriousAxe(supervisor);
     },
     LONG_TEST_MS,
   );
