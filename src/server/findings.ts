@@ -246,7 +246,11 @@ interface FindingRow {
   mismatched: number;
 }
 
-/** The supervisor's findings list: server findings, newest round first, with the latest review of each. */
+/**
+ * The supervisor's findings list: server findings, newest round first, with the latest review of each. The literal
+ * `severity_rank >= 1` (always true here: the least severity asked for is watch) lets SQLite use the partial index
+ * of listed findings from migration 004; a bound parameter alone would not.
+ */
 export class FindingsQuery {
   private readonly select;
 
@@ -263,7 +267,7 @@ export class FindingsQuery {
        LEFT JOIN finding_reviews v ON v.record_seq = (
          SELECT record_seq FROM finding_reviews WHERE finding_key = f.key ORDER BY at_ms DESC, record_seq DESC LIMIT 1)
        LEFT JOIN records r ON r.seq = v.record_seq
-       WHERE f.severity_rank >= @minRank
+       WHERE f.severity_rank >= 1 AND f.severity_rank >= @minRank
          AND (@machine IS NULL OR f.machine_id = @machine)
          AND (@fromMs IS NULL OR f.round_finished_ms >= @fromMs)
          AND (@toMs IS NULL OR f.round_finished_ms <= @toMs)

@@ -1,16 +1,19 @@
 /**
  * `npm run bench`: prints a table of speed and size figures and writes them to test-output/bench/results.json.
  * Targets are judged here, never by timed assertions inside tests. Add a bench by appending to BENCHES.
+ * `npm run bench -- <name> …` runs only the benches named (e.g. `npm run bench -- findings trend`).
  */
 import { mkdirSync, writeFileSync } from 'node:fs';
 import { join, resolve } from 'node:path';
 import { bundleSize } from './bundle-size';
 import { calcSpeed } from './calc-speed';
 import { checksSpeed } from './checks-speed';
+import { findingsQuery } from './findings-query';
 import { roundEntry } from './round-entry';
 import type { Bench, BenchRow } from './rows';
 import { serverIngest } from './server-ingest';
 import { storeSpeed } from './store-speed';
+import { trendRender } from './trend-render';
 
 const BENCHES: Array<[string, Bench]> = [
   ['bundle', bundleSize],
@@ -19,10 +22,18 @@ const BENCHES: Array<[string, Bench]> = [
   ['store', storeSpeed],
   ['server', serverIngest],
   ['round entry', roundEntry],
+  ['findings', findingsQuery],
+  ['trend', trendRender],
 ];
 
+const chosen = process.argv.slice(2);
+const unknown = chosen.filter((name) => !BENCHES.some(([bench]) => bench === name));
+if (unknown.length > 0) {
+  throw new Error(`No bench named ${unknown.join(', ')}; the benches are: ${BENCHES.map(([name]) => name).join(', ')}`);
+}
 const rows: Array<BenchRow & { bench: string }> = [];
 for (const [name, bench] of BENCHES) {
+  if (chosen.length > 0 && !chosen.includes(name)) continue;
   for (const row of await bench()) rows.push({ bench: name, ...row });
 }
 
