@@ -1,13 +1,15 @@
 /**
  * X-y charts with uPlot's mode 2 (each series has its own x values, in any order, so a closed pressure-volume loop
  * draws as a loop): shaded x-bands with a hatch (so a band is not told by colour alone), labelled horizontal
- * reference lines, and labelled marker points with distinct shapes. Colours come from the theme's CSS custom
+ * reference lines, and labelled marker points with distinct shapes. ChartColours come from the theme's CSS custom
  * properties and follow a theme change; the chart follows its container's width and is destroyed on unmount. The
  * caller gives the text alternative (summary and table) as children.
  */
+
 import type { ComponentChildren } from 'preact';
-import { useEffect, useRef, useState } from 'preact/hooks';
+import { useEffect, useRef } from 'preact/hooks';
 import uPlot from 'uplot';
+import { type ChartColours, readChartColours, useThemeVersion } from './theme';
 import 'uplot/dist/uPlot.min.css';
 import './trend-chart.css';
 import './xy-chart.css';
@@ -54,56 +56,6 @@ export interface XYChartProps {
   children?: ComponentChildren;
 }
 
-interface Colours {
-  text: string;
-  border: string;
-  bg: string;
-  accent: string;
-  alarm: string;
-  band: string;
-  series: string[];
-  font: string;
-}
-
-function readColours(host: HTMLElement): Colours {
-  const probe = document.createElement('span');
-  probe.style.display = 'none';
-  host.appendChild(probe);
-  const resolve = (name: string, fallback: string) => {
-    probe.style.color = fallback;
-    probe.style.color = `var(${name}, ${fallback})`;
-    return getComputedStyle(probe).color || fallback;
-  };
-  const colours: Colours = {
-    text: resolve('--text', '#000'),
-    border: resolve('--border', '#000'),
-    bg: resolve('--surface', '#fff'),
-    accent: resolve('--accent', '#0a3a8c'),
-    alarm: resolve('--alarm', '#b00020'),
-    band: resolve('--xy-band', '#888'),
-    series: Array.from({ length: 4 }, (_, k) => resolve(`--trend-${k + 1}`, '#000')),
-    font: getComputedStyle(host).fontFamily || 'sans-serif',
-  };
-  probe.remove();
-  return colours;
-}
-
-function useThemeVersion(): number {
-  const [version, setVersion] = useState(0);
-  useEffect(() => {
-    const bump = () => setVersion((v) => v + 1);
-    const observer = new MutationObserver(bump);
-    observer.observe(document.documentElement, { attributes: true, attributeFilter: ['data-theme'] });
-    const media = window.matchMedia?.('(prefers-color-scheme: dark)');
-    media?.addEventListener('change', bump);
-    return () => {
-      observer.disconnect();
-      media?.removeEventListener('change', bump);
-    };
-  }, []);
-  return version;
-}
-
 const heightFor = (width: number) => Math.round(Math.min(420, Math.max(260, width * 0.55)));
 const SERIES_DASH: number[][] = [[], [8, 4], [2, 4], [12, 4, 2, 4]];
 const tick = (v: number) => String(Number(v.toPrecision(6)));
@@ -118,7 +70,7 @@ function range(values: number[]): [number, number] {
 
 function build(
   props: XYChartProps,
-  colours: Colours,
+  colours: ChartColours,
 ): { options: Omit<uPlot.Options, 'width' | 'height'>; data: uPlot.AlignedData } {
   const font = `16px ${colours.font}`;
   const axis = {
@@ -268,7 +220,7 @@ export function XYChart(props: XYChartProps) {
     const element = host.current;
     if (!element || !props.series.some((s) => s.x.length > 0)) return;
     const width = Math.max(280, Math.floor(element.clientWidth));
-    const { options, data } = build(props, readColours(element));
+    const { options, data } = build(props, readChartColours(element, 4));
     const plot = new uPlot({ ...options, width, height: heightFor(width) }, data, element);
     const observer = new ResizeObserver((entries) => {
       const next = Math.floor(entries[0]?.contentRect.width ?? 0);

@@ -4,9 +4,11 @@
  * so nothing depends on colour alone. Every chart carries its text alternative: a summary sentence and a table of
  * the readings.
  */
+
 import type { RefObject } from 'preact';
 import { useEffect, useRef, useState } from 'preact/hooks';
 import uPlot from 'uplot';
+import { type ChartColours, readChartColours, useThemeVersion } from './theme';
 import 'uplot/dist/uPlot.min.css';
 import './trend-chart.css';
 import type { ChartLimit, LimitLevel, PointTrend } from '../../models/trend';
@@ -23,63 +25,9 @@ const PROJECTION_DASH = [10, 8];
 const SERIES_DASH: number[][] = [[], [8, 4], [2, 4], [12, 4, 2, 4], [], [8, 4], [2, 4], [12, 4, 2, 4]];
 const SERIES_COUNT = 8;
 
-interface Colours {
-  text: string;
-  muted: string;
-  border: string;
-  bg: string;
-  accent: string;
-  watch: string;
-  alarm: string;
-  series: string[];
-  font: string;
-}
-
-/** Resolves the theme's colours (light-dark() values) through a hidden element inside the chart. */
-function readColours(host: HTMLElement): Colours {
-  const probe = document.createElement('span');
-  probe.style.display = 'none';
-  host.appendChild(probe);
-  const resolve = (name: string, fallback: string) => {
-    probe.style.color = fallback;
-    probe.style.color = `var(${name}, ${fallback})`;
-    return getComputedStyle(probe).color || fallback;
-  };
-  const colours: Colours = {
-    text: resolve('--text', '#000'),
-    muted: resolve('--muted', '#333'),
-    border: resolve('--border', '#000'),
-    bg: resolve('--surface', '#fff'),
-    accent: resolve('--accent', '#0a3a8c'),
-    watch: resolve('--watch', '#8a5a00'),
-    alarm: resolve('--alarm', '#b00020'),
-    series: Array.from({ length: SERIES_COUNT }, (_, k) => resolve(`--trend-${k + 1}`, '#000')),
-    font: getComputedStyle(host).fontFamily || 'sans-serif',
-  };
-  probe.remove();
-  return colours;
-}
-
-/** Changes whenever the theme might have changed: the theme switch, or the tablet's own light/dark setting. */
-function useThemeVersion(): number {
-  const [version, setVersion] = useState(0);
-  useEffect(() => {
-    const bump = () => setVersion((v) => v + 1);
-    const observer = new MutationObserver(bump);
-    observer.observe(document.documentElement, { attributes: true, attributeFilter: ['data-theme'] });
-    const media = window.matchMedia?.('(prefers-color-scheme: dark)');
-    media?.addEventListener('change', bump);
-    return () => {
-      observer.disconnect();
-      media?.removeEventListener('change', bump);
-    };
-  }, []);
-  return version;
-}
-
 const heightFor = (width: number) => Math.round(Math.min(440, Math.max(260, width * 0.55)));
 
-type Build = (colours: Colours) => { options: Omit<uPlot.Options, 'width' | 'height'>; data: uPlot.AlignedData };
+type Build = (colours: ChartColours) => { options: Omit<uPlot.Options, 'width' | 'height'>; data: uPlot.AlignedData };
 
 /** Builds the plot in the container, follows its width, rebuilds on a theme change, and destroys it on unmount. */
 function useUplot(host: RefObject<HTMLDivElement | null>, build: Build | null, key: unknown): void {
@@ -88,7 +36,7 @@ function useUplot(host: RefObject<HTMLDivElement | null>, build: Build | null, k
     const element = host.current;
     if (!element || !build) return;
     const width = Math.max(280, Math.floor(element.clientWidth));
-    const { options, data } = build(readColours(element));
+    const { options, data } = build(readChartColours(element, SERIES_COUNT));
     const plot = new uPlot({ ...options, width, height: heightFor(width) }, data, element);
     const observer = new ResizeObserver((entries) => {
       const next = Math.floor(entries[0]?.contentRect.width ?? 0);
@@ -114,7 +62,7 @@ function timeTicks(splits: number[]): string[] {
   );
 }
 
-function axes(colours: Colours, unit: string): uPlot.Axis[] {
+function axes(colours: ChartColours, unit: string): uPlot.Axis[] {
   const font = `16px ${colours.font}`;
   const common = {
     stroke: colours.text,
@@ -143,7 +91,7 @@ function yRange(values: Array<number | null | undefined>): uPlot.Range.Function 
   return () => [lo - pad, hi + pad];
 }
 
-function drawLimits(limits: readonly ChartLimit[], unit: string, colours: Colours) {
+function drawLimits(limits: readonly ChartLimit[], unit: string, colours: ChartColours) {
   return (u: uPlot) => {
     const ctx = u.ctx;
     const ratio = uPlot.pxRatio;

@@ -11,6 +11,7 @@ import {
 } from '../../../schema';
 import { CylinderDrawing } from '../../components/CylinderDrawing';
 import { LockoutGate } from '../../components/LockoutGate';
+import { hours, ValveLifeTable } from '../../components/ValveLifeTable';
 import { describeStoreError } from '../../models/data';
 import {
   acknowledgeTask,
@@ -39,8 +40,6 @@ const LENGTH_UNITS = [
 ] as const;
 
 const day = (iso: string) => new Date(iso).toLocaleDateString([], { dateStyle: 'medium' });
-const hours = (h: number | null | undefined) =>
-  h === null || h === undefined ? '–' : `${Math.round(h).toLocaleString()} h`;
 
 /** Parses a typed length in a unit to metres; null with a message when it is not a length. */
 function lengthM(text: string, unit: string): { value: number } | { error: string } {
@@ -783,34 +782,11 @@ function History({ context, machine }: { context: MaintenanceContext; machine: M
         <p>No valve changes recorded on this tablet for {machine.name}.</p>
       ) : (
         <>
-          <table class="table">
-            <caption>Positions with changes, the ones that eat valves first</caption>
-            <thead>
-              <tr>
-                <th scope="col">Position</th>
-                <th scope="col">Changes</th>
-                <th scope="col">Failures</th>
-                <th scope="col">Mean between changes</th>
-                <th scope="col">Counting the valve in service</th>
-                <th scope="col">As found</th>
-              </tr>
-            </thead>
-            <tbody>
-              {ranked.map((h) => (
-                <tr key={h.positionId} data-testid={`history-${h.positionId}`}>
-                  <th scope="row">{h.positionId}</th>
-                  <td>{h.changes.length}</td>
-                  <td>{h.life?.failures ?? '–'}</td>
-                  <td>
-                    {hours(h.life?.meanTimeBetweenChangesH)}
-                    {h.life?.indicative ? ' (indicative)' : ''}
-                  </td>
-                  <td>{hours(h.life?.censoredMeanH)}</td>
-                  <td>{h.failuresByWord.map((w) => `${w.word} × ${w.count}`).join(', ') || '–'}</td>
-                </tr>
-              ))}
-            </tbody>
-          </table>
+          <ValveLifeTable
+            rows={ranked}
+            caption="Positions with changes, the ones that eat valves first"
+            rowTestId={(h) => `history-${h.positionId}`}
+          />
           {ranked.map((h) => (
             <div key={h.positionId} class="panel__block">
               <h3>

@@ -1,11 +1,9 @@
 import { useEffect, useState } from 'preact/hooks';
+import { ValveLifeTable } from '../../components/ValveLifeTable';
 import { describeStoreError } from '../../models/data';
 import { siteValveLife } from '../../models/valve-history';
 import { Link, type ScreenProps } from '../../router';
 import { useServices } from '../../services';
-
-const hours = (h: number | null | undefined) =>
-  h === null || h === undefined ? '–' : `${Math.round(h).toLocaleString()} h`;
 
 /** The site's valve life, for the supervisor: read-only, from the valve changes the tablet holds. */
 export default function ValveLife(_props: ScreenProps) {
@@ -43,36 +41,13 @@ export default function ValveLife(_props: ScreenProps) {
       {rows.length === 0 ? (
         <p>No valve changes recorded yet.</p>
       ) : (
-        <table class="table">
-          <caption class="visually-hidden">Valve positions ranked by failures and shortest life</caption>
-          <thead>
-            <tr>
-              <th scope="col">Machine</th>
-              <th scope="col">Position</th>
-              <th scope="col">Changes</th>
-              <th scope="col">Failures</th>
-              <th scope="col">Mean between changes</th>
-              <th scope="col">Counting the valve in service</th>
-              <th scope="col">As found</th>
-            </tr>
-          </thead>
-          <tbody>
-            {rows.map((h) => (
-              <tr key={`${h.machineId}/${h.positionId}`} data-testid={`life-${h.machineId}-${h.positionId}`}>
-                <td>{h.machineName}</td>
-                <th scope="row">{h.positionId}</th>
-                <td>{h.changes.length}</td>
-                <td>{h.life?.failures ?? '–'}</td>
-                <td>
-                  {hours(h.life?.meanTimeBetweenChangesH)}
-                  {h.life?.indicative ? ' (indicative)' : ''}
-                </td>
-                <td>{hours(h.life?.censoredMeanH)}</td>
-                <td>{h.failuresByWord.map((w) => `${w.word} × ${w.count}`).join(', ') || '–'}</td>
-              </tr>
-            ))}
-          </tbody>
-        </table>
+        <ValveLifeTable
+          rows={rows}
+          caption="Valve positions ranked by failures and shortest life"
+          captionHidden
+          machineColumn
+          rowTestId={(h) => `life-${h.machineId}-${h.positionId}`}
+        />
       )}
     </section>
   );
