@@ -27,6 +27,7 @@ export {
 export { HealthResponse, SiteSummary } from './health';
 export {
   AS_FOUND_WORDS,
+  MAX_PHOTO_DATA_URL,
   BearingClearanceRecord,
   ClearanceMethod,
   FINDING_RULES,

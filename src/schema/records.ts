@@ -147,6 +147,9 @@ const Torque = z.strictObject({
   valueNm: positive(1e5, 'N·m'),
 });
 
+/** The longest photo data URL a valve change may carry (about 450 KB of image: well inside one sync batch). */
+export const MAX_PHOTO_DATA_URL = 600_000;
+
 export const ValveChange = z.strictObject({
   id: Id,
   machineId: ConfigId,
@@ -161,6 +164,18 @@ export const ValveChange = z.strictObject({
   capBoltTorque: Torque.optional(),
   runHours: bounded(0, 1e7, 'h').optional(),
   notes: LongText.optional(),
+  /** An optional photo of what was found, downscaled on the tablet so that it travels with the record. */
+  photo: z
+    .strictObject({
+      mediaType: z.enum(['image/jpeg', 'image/webp']),
+      dataUrl: z
+        .string()
+        .max(MAX_PHOTO_DATA_URL, 'the photo is too large; take it again (the app shrinks it before saving)')
+        .regex(/^data:image\/(jpeg|webp);base64,[A-Za-z0-9+/]+={0,2}$/, 'must be a base64 JPEG or WebP data URL'),
+      widthPx: z.int().min(1).max(4096),
+      heightPx: z.int().min(1).max(4096),
+    })
+    .optional(),
   /** The lockout acknowledgement made before the cover was opened. */
   lockoutAckId: Id,
 });

@@ -114,6 +114,18 @@ describe("the mechanic's log with the server stopped", () => {
       await page.getByRole('button', { name: 'tired springs', exact: true }).click();
       await page.getByRole('button', { name: 'gaskets', exact: true }).click();
       await page.getByTestId('valve-hours').fill('43517');
+      // An optional photo: a 1 × 1 PNG (PNG signature per ISO/IEC 15948), shrunk to JPEG on the tablet.
+      await page.getByTestId('valve-photo').setInputFiles({
+        name: 'valve.png',
+        mimeType: 'image/png',
+        buffer: Buffer.from(
+          'iVBORw0KGgoAAAANSUhEUgAAAAEAAAABCAYAAAAfFcSJAAAADUlEQVR42mP8z8BQDwAEhQGAhKmMIQAAAABJRU5ErkJggg==',
+          'base64',
+        ),
+      });
+      const preview = page.getByTestId('valve-photo-preview');
+      await preview.waitFor({ state: 'visible', timeout: STEP_MS });
+      expect(await preview.getAttribute('src')).toMatch(/^data:image\/jpeg;base64,/);
       await page.getByTestId('valve-save').click();
       await waitForTestIdText(page, 'task-message', /^Saved: K-101 C2-CE-S1, valve SV-T-0202 fitted/);
       // The acknowledgement covered that one task: the next one starts at the gate again.
@@ -151,7 +163,7 @@ describe("the mechanic's log with the server stopped", () => {
       const recent = page.getByTestId('recent-records');
       await recent.waitFor({ state: 'visible', timeout: STEP_MS });
       const text = (await recent.textContent()) ?? '';
-      expect(text).toContain('K-101 C2-CE-S1: valve SV-T-0101 → SV-T-0202 (planned)');
+      expect(text).toContain('K-101 C2-CE-S1: valve SV-T-0101 → SV-T-0202 (planned), with photo');
       expect(text).toContain('K-101 MB2: clearance 0.220 mm');
       const after = (await readOutbox(page)).map((entry) => entry.type);
       expect(after.filter((type) => type === 'valveChange')).toHaveLength(1);

@@ -1,14 +1,17 @@
 import { describe, expect, expectTypeOf, it } from 'vitest';
+import { demoHistory } from '../../src/demo';
 import {
   describeIssues,
   Envelope,
   envelopeFor,
   LockoutAck,
+  MAX_PHOTO_DATA_URL,
   parseEnvelope,
   Reading,
   RecordError,
   Round,
   type TypedEnvelope,
+  ValveChange,
 } from '../../src/schema';
 
 const ROUND_ID = '6f1c2d3e-4a5b-4c6d-8e7f-901234567890';
@@ -156,5 +159,32 @@ describe('parseEnvelope', () => {
       /version 2 of round is not known here/,
     );
     expect(Envelope.safeParse({ ...envelopeFor('round', body, meta), extra: 1 }).success).toBe(false);
+  });
+});
+
+describe('ValveChange photo', () => {
+  const change = demoHistory({ end: '2026-11-30T00:00:00.000Z' }).valveChanges[0];
+  // A 1 × 1 JPEG is still a JPEG: the data URL form is RFC 2397, base64 per RFC 4648 §4.
+  const photo = {
+    mediaType: 'image/jpeg' as const,
+    dataUrl: `data:image/jpeg;base64,${Buffer.from([0xff, 0xd8, 0xff, 0xd9]).toString('base64')}`,
+    widthPx: 1,
+    heightPx: 1,
+  };
+
+  it('accepts a valve change with a downscaled photo, and one without', () => {
+    expect(ValveChange.safeParse({ ...change, photo }).success).toBe(true);
+    expect(ValveChange.safeParse(change).success).toBe(true);
+  });
+
+  it('refuses a photo that is not a base64 JPEG or WebP data URL, or too large, saying why', () => {
+    expect(message(ValveChange, { ...change, photo: { ...photo, dataUrl: 'https://example.com/valve.jpg' } })).toMatch(
+      /photo\.dataUrl.*base64 JPEG or WebP data URL/,
+    );
+    const huge = `data:image/jpeg;base64,${'A'.repeat(MAX_PHOTO_DATA_URL)}`;
+    expect(message(ValveChange, { ...change, photo: { ...photo, dataUrl: huge } })).toMatch(/photo is too large/);
+    expect(message(ValveChange, { ...change, photo: { ...photo, mediaType: 'image/gif' } })).toMatch(
+      /photo\.mediaType/,
+    );
   });
 });

@@ -20,6 +20,7 @@ import {
   openMaintenance,
   saveMaintenance,
 } from '../../models/maintenance';
+import { type RecordPhoto, shrinkPhoto } from '../../models/photo';
 import { positionHistories, rankPositions } from '../../models/valve-history';
 import { Link, type ScreenProps } from '../../router';
 import { useServices } from '../../services';
@@ -117,7 +118,7 @@ function Recent({ context }: { context: MaintenanceContext }) {
           {[
             ...records.valves.map((v) => ({
               at: v.at,
-              text: `${day(v.at)} · ${v.machineId} ${v.valvePositionId}: valve ${v.removedValveId || '?'} → ${v.installedValveId} (${v.reason})`,
+              text: `${day(v.at)} · ${v.machineId} ${v.valvePositionId}: valve ${v.removedValveId || '?'} → ${v.installedValveId} (${v.reason})${v.photo ? ', with photo' : ''}`,
             })),
             ...records.bearings.map((b) => ({
               at: b.at,
@@ -240,6 +241,8 @@ function ValveChangeTask({ context, machine }: { context: MaintenanceContext; ma
   const [torqueUnit, setTorqueUnit] = useState<'Nm' | 'ftlbf'>('Nm');
   const [runHours, setRunHours] = useState('');
   const [notes, setNotes] = useState('');
+  const [photo, setPhoto] = useState<RecordPhoto | null>(null);
+  const [photoProblem, setPhotoProblem] = useState<string | null>(null);
   const [message, setMessage] = useState<string | null>(null);
   const { ack, gate, banner, reset } = useGate(context);
   const cylinder = machine.cylinders.find((c) => c.id === cylinderId) ?? null;
@@ -276,6 +279,7 @@ function ValveChangeTask({ context, machine }: { context: MaintenanceContext; ma
           }),
       ...(hoursValue === null ? {} : { runHours: hoursValue }),
       ...(notes.trim() ? { notes: notes.trim() } : {}),
+      ...(photo ? { photo } : {}),
       lockoutAckId: ack.id,
     };
     try {
@@ -291,6 +295,7 @@ function ValveChangeTask({ context, machine }: { context: MaintenanceContext; ma
       setAsFound([]);
       setParts([]);
       setNotes('');
+      setPhoto(null);
     } catch (error) {
       setMessage(`Not saved: ${describeStoreError(error)}`);
     }
@@ -435,6 +440,42 @@ function ValveChangeTask({ context, machine }: { context: MaintenanceContext; ma
                 onInput={(e) => setNotes(e.currentTarget.value)}
               />
             </label>
+            <label class="field">
+              <span class="field__label">Photo of what was found (optional)</span>
+              <input
+                class="field__input"
+                type="file"
+                accept="image/*"
+                capture="environment"
+                data-testid="valve-photo"
+                onChange={async (e) => {
+                  const file = e.currentTarget.files?.[0];
+                  setPhotoProblem(null);
+                  if (!file) return;
+                  try {
+                    setPhoto(await shrinkPhoto(file));
+                  } catch (error) {
+                    setPhoto(null);
+                    setPhotoProblem(error instanceof Error ? error.message : String(error));
+                  }
+                }}
+              />
+            </label>
+            {photoProblem ? <p class="warning">{photoProblem}</p> : null}
+            {photo ? (
+              <div class="photo">
+                <img
+                  src={photo.dataUrl}
+                  alt={`Photo for the valve change at ${positionId}`}
+                  width={photo.widthPx}
+                  height={photo.heightPx}
+                  data-testid="valve-photo-preview"
+                />
+                <button type="button" class="button button--quiet" onClick={() => setPhoto(null)}>
+                  Remove the photo
+                </button>
+              </div>
+            ) : null}
             <button type="button" class="button" disabled={!ready} onClick={() => void save()} data-testid="valve-save">
               Save the valve change
             </button>
