@@ -27,12 +27,12 @@ export {
 export { HealthResponse, SiteSummary } from './health';
 export {
   AS_FOUND_WORDS,
-  MAX_PHOTO_DATA_URL,
   BearingClearanceRecord,
   ClearanceMethod,
   FINDING_RULES,
   Finding,
   LockoutAck,
+  MAX_PHOTO_DATA_URL,
   Note,
   PARTS,
   Reading,

@@ -221,6 +221,44 @@ function useGate(context: MaintenanceContext) {
   return { ack, gate, banner, reset: () => setAck(null) };
 }
 
+/** A length typed on the numeric keypad with its unit beside it (kept as typed; converted to metres on save). */
+function LengthField(props: {
+  label: string;
+  unitLabel: string;
+  testId: string;
+  value: string;
+  unit: string;
+  onValue: (value: string) => void;
+  onUnit: (unit: string) => void;
+}) {
+  return (
+    <div class="number">
+      <label class="field">
+        <span class="field__label">{props.label}</span>
+        <input
+          class="field__input number__input"
+          inputmode="decimal"
+          value={props.value}
+          onInput={(e) => props.onValue(e.currentTarget.value)}
+          data-testid={props.testId}
+        />
+      </label>
+      <select
+        class="unit-select"
+        aria-label={props.unitLabel}
+        value={props.unit}
+        onChange={(e) => props.onUnit(e.currentTarget.value)}
+      >
+        {LENGTH_UNITS.map((u) => (
+          <option key={u.id} value={u.id}>
+            {u.label}
+          </option>
+        ))}
+      </select>
+    </div>
+  );
+}
+
 function Saved({ message }: { message: string | null }) {
   return message ? (
     <p role="status" class={message.startsWith('Saved') ? 'save save--saved' : 'warning'} data-testid="task-message">
@@ -466,7 +504,7 @@ function ValveChangeTask({ context, machine }: { context: MaintenanceContext; ma
               <div class="photo">
                 <img
                   src={photo.dataUrl}
-                  alt={`Photo for the valve change at ${positionId}`}
+                  alt={`What was found at ${positionId}, for this valve change`}
                   width={photo.widthPx}
                   height={photo.heightPx}
                   data-testid="valve-photo-preview"
@@ -614,30 +652,15 @@ function BearingTask({ context, machine }: { context: MaintenanceContext; machin
                 ))}
               </select>
             </label>
-            <div class="number">
-              <label class="field">
-                <span class="field__label">Measured diametral clearance</span>
-                <input
-                  class="field__input number__input"
-                  inputmode="decimal"
-                  value={value}
-                  onInput={(e) => setValue(e.currentTarget.value)}
-                  data-testid="clearance-value"
-                />
-              </label>
-              <select
-                class="unit-select"
-                aria-label="Clearance unit"
-                value={unit}
-                onChange={(e) => setUnit(e.currentTarget.value)}
-              >
-                {LENGTH_UNITS.map((u) => (
-                  <option key={u.id} value={u.id}>
-                    {u.label}
-                  </option>
-                ))}
-              </select>
-            </div>
+            <LengthField
+              label="Measured diametral clearance"
+              unitLabel="Clearance unit"
+              testId="clearance-value"
+              value={value}
+              unit={unit}
+              onValue={setValue}
+              onUnit={setUnit}
+            />
             {parsed && 'error' in parsed ? <p class="warning">{parsed.error}</p> : null}
             {result ? (
               'error' in result ? (
@@ -755,30 +778,15 @@ function RodDropTask({ context, machine }: { context: MaintenanceContext; machin
           )}
           <fieldset class="form" disabled={!ack}>
             <legend class="visually-hidden">Rod drop reading</legend>
-            <div class="number">
-              <label class="field">
-                <span class="field__label">Rod-drop reading</span>
-                <input
-                  class="field__input number__input"
-                  inputmode="decimal"
-                  value={value}
-                  onInput={(e) => setValue(e.currentTarget.value)}
-                  data-testid="rod-value"
-                />
-              </label>
-              <select
-                class="unit-select"
-                aria-label="Rod drop unit"
-                value={unit}
-                onChange={(e) => setUnit(e.currentTarget.value)}
-              >
-                {LENGTH_UNITS.map((u) => (
-                  <option key={u.id} value={u.id}>
-                    {u.label}
-                  </option>
-                ))}
-              </select>
-            </div>
+            <LengthField
+              label="Rod-drop reading"
+              unitLabel="Rod drop unit"
+              testId="rod-value"
+              value={value}
+              unit={unit}
+              onValue={setValue}
+              onUnit={setUnit}
+            />
             {wear ? (
               'error' in wear ? (
                 <p class="warning">{wear.error}</p>
