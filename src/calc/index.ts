@@ -101,6 +101,7 @@ export {
 } from './rod-load';
 export {
   type EndPerformance,
+  goldenMaximum,
   POWER_CURVE_POINTS,
   type PowerCurve,
   type PowerCurvePoint,

@@ -201,8 +201,13 @@ function endAt(
   };
 }
 
-/** Golden-section search for the maximum of a unimodal function on [low, high], to PEAK_RELATIVE_TOLERANCE. */
-function goldenMaximum(f: (x: number) => number, lowStart: number, highStart: number): { at: number; value: number } {
+/** Golden-section search for the maximum of a unimodal function on [low, high], to a tolerance relative to low. */
+export function goldenMaximum(
+  f: (x: number) => number,
+  lowStart: number,
+  highStart: number,
+  relativeTolerance = PEAK_RELATIVE_TOLERANCE,
+): { at: number; value: number } {
   let low = lowStart;
   let high = highStart;
   const golden = (Math.sqrt(5) - 1) / 2;
@@ -210,7 +215,7 @@ function goldenMaximum(f: (x: number) => number, lowStart: number, highStart: nu
   let x2 = low + golden * (high - low);
   let f1 = f(x1);
   let f2 = f(x2);
-  while (high - low > PEAK_RELATIVE_TOLERANCE * low) {
+  while (high - low > relativeTolerance * low) {
     if (f1 < f2) {
       low = x1;
       x1 = x2;

@@ -8,6 +8,9 @@ import { buildContext, type History } from './context';
 import { bearingFindings, valveCoverFindings } from './equipment';
 import { limitFinding } from './limits';
 import { stageFindings } from './stage';
+
+export { cylinderStageInput } from './stage';
+
 import { trendFindings } from './trend';
 
 export { barometerOf, type History } from './context';

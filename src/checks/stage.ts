@@ -8,10 +8,45 @@ import {
   dischargeTemperature,
   gasProperties,
   rodLoad,
+  type StageInput,
   stagePerformance,
 } from '../calc';
 import type { Cylinder, Finding, Machine, Stage } from '../schema';
 import { display, findReading, makeFinding, memoised, type RoundContext } from './context';
+
+/** The input of calc's stage functions for one cylinder of a stage at one operating state. */
+export function cylinderStageInput(
+  machine: Machine,
+  stage: Stage,
+  cylinder: Cylinder,
+  state: { suctionPressurePa: number; dischargePressurePa: number; suctionTemperatureK: number },
+  composition: Record<string, number>,
+  standardBasis: StageInput['standardBasis'],
+): StageInput {
+  return {
+    boreM: cylinder.boreM,
+    rodM: cylinder.rodM,
+    ...(cylinder.tailRodM === undefined ? {} : { tailRodM: cylinder.tailRodM }),
+    strokeM: machine.frame.strokeM,
+    speedRpm: machine.frame.ratedSpeedRpm,
+    headClearance: cylinder.headClearance,
+    crankClearance: cylinder.crankClearance,
+    headActive: cylinder.headActive,
+    crankActive: cylinder.crankActive,
+    suctionPressurePa: state.suctionPressurePa,
+    dischargePressurePa: state.dischargePressurePa,
+    suctionTemperatureK: state.suctionTemperatureK,
+    composition,
+    ...(cylinder.polytropicExponent === undefined ? {} : { polytropicExponent: cylinder.polytropicExponent }),
+    ...(cylinder.zSuction === undefined ? {} : { zSuction: cylinder.zSuction }),
+    ...(cylinder.zDischarge === undefined ? {} : { zDischarge: cylinder.zDischarge }),
+    veMethod: stage.veMethod,
+    ...(stage.veConstant === undefined ? {} : { veConstant: stage.veConstant }),
+    ...(stage.compressionEfficiency === undefined ? {} : { compressionEfficiency: stage.compressionEfficiency }),
+    ...(stage.mechanicalEfficiency === undefined ? {} : { mechanicalEfficiency: stage.mechanicalEfficiency }),
+    ...(standardBasis === undefined ? {} : { standardBasis }),
+  };
+}
 
 interface StageReadings {
   suctionPressurePa: number;
@@ -210,29 +245,14 @@ function performanceFinding(
       const result = memoised(
         ctx,
         'stagePerformance',
-        {
-          boreM: cylinder.boreM,
-          rodM: cylinder.rodM,
-          ...(cylinder.tailRodM === undefined ? {} : { tailRodM: cylinder.tailRodM }),
-          strokeM: machine.frame.strokeM,
-          speedRpm: machine.frame.ratedSpeedRpm,
-          headClearance: cylinder.headClearance,
-          crankClearance: cylinder.crankClearance,
-          headActive: cylinder.headActive,
-          crankActive: cylinder.crankActive,
-          suctionPressurePa: readings.suctionPressurePa,
-          dischargePressurePa: readings.dischargePressurePa,
-          suctionTemperatureK: readings.suctionTemperatureK as number,
+        cylinderStageInput(
+          machine,
+          stage,
+          cylinder,
+          { ...readings, suctionTemperatureK: readings.suctionTemperatureK as number },
           composition,
-          ...(cylinder.polytropicExponent === undefined ? {} : { polytropicExponent: cylinder.polytropicExponent }),
-          ...(cylinder.zSuction === undefined ? {} : { zSuction: cylinder.zSuction }),
-          ...(cylinder.zDischarge === undefined ? {} : { zDischarge: cylinder.zDischarge }),
-          veMethod: stage.veMethod,
-          ...(stage.veConstant === undefined ? {} : { veConstant: stage.veConstant }),
-          ...(stage.compressionEfficiency === undefined ? {} : { compressionEfficiency: stage.compressionEfficiency }),
-          ...(stage.mechanicalEfficiency === undefined ? {} : { mechanicalEfficiency: stage.mechanicalEfficiency }),
           standardBasis,
-        },
+        ),
         stagePerformance,
       );
       inletFlowM3s += result.inletFlowM3s;

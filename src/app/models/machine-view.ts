@@ -14,6 +14,7 @@ import {
   CalcError,
   dischargeTemperature,
   gasProperties,
+  goldenMaximum,
   powerCurve,
   type RodLoadInput,
   type RodLoadResult,
@@ -21,7 +22,10 @@ import {
   type StageInput,
   type Status,
 } from '../../calc';
-import { barometerOf } from '../../checks';
+import { barometerOf, cylinderStageInput } from '../../checks';
+
+export { cylinderStageInput };
+
 import type { CheckPoint, Cylinder, Finding, FinishedRound, Machine, Reading, SiteConfig, Stage } from '../../schema';
 
 export class MachineViewError extends Error {
@@ -247,40 +251,6 @@ function stageTrends(stage: Stage, cylinders: Cylinder[], rounds: FinishedRound[
   } satisfies Record<string, StageQuantity>;
 }
 
-/** The per-cylinder input of calc's stage functions, exactly as the checks build it. */
-export function cylinderStageInput(
-  machine: Machine,
-  stage: Stage,
-  cylinder: Cylinder,
-  state: OperatingState & { suctionTemperatureK: number },
-  composition: Record<string, number>,
-  standardBasis: StageInput['standardBasis'],
-): StageInput {
-  return {
-    boreM: cylinder.boreM,
-    rodM: cylinder.rodM,
-    ...(cylinder.tailRodM === undefined ? {} : { tailRodM: cylinder.tailRodM }),
-    strokeM: machine.frame.strokeM,
-    speedRpm: machine.frame.ratedSpeedRpm,
-    headClearance: cylinder.headClearance,
-    crankClearance: cylinder.crankClearance,
-    headActive: cylinder.headActive,
-    crankActive: cylinder.crankActive,
-    suctionPressurePa: state.suctionPressurePa,
-    dischargePressurePa: state.dischargePressurePa,
-    suctionTemperatureK: state.suctionTemperatureK,
-    composition,
-    ...(cylinder.polytropicExponent === undefined ? {} : { polytropicExponent: cylinder.polytropicExponent }),
-    ...(cylinder.zSuction === undefined ? {} : { zSuction: cylinder.zSuction }),
-    ...(cylinder.zDischarge === undefined ? {} : { zDischarge: cylinder.zDischarge }),
-    veMethod: stage.veMethod,
-    ...(stage.veConstant === undefined ? {} : { veConstant: stage.veConstant }),
-    ...(stage.compressionEfficiency === undefined ? {} : { compressionEfficiency: stage.compressionEfficiency }),
-    ...(stage.mechanicalEfficiency === undefined ? {} : { mechanicalEfficiency: stage.mechanicalEfficiency }),
-    ...(standardBasis === undefined ? {} : { standardBasis }),
-  };
-}
-
 /** Points on the stage's power curve. */
 export const STAGE_CURVE_POINTS = 120;
 
@@ -311,36 +281,17 @@ export function stagePowerCurve(inputs: StageInput[], operatingDischargePa: numb
   let best = 0;
   for (let index = 1; index < grid.length; index += 1)
     if ((power[index] as number) > (power[best] as number)) best = index;
-  // Golden-section search between the neighbours of the best grid point.
-  const f = (pd: number) => total([pd])[0] as number;
-  let low = grid[Math.max(0, best - 1)] as number;
-  let high = grid[Math.min(grid.length - 1, best + 1)] as number;
-  const golden = (Math.sqrt(5) - 1) / 2;
-  let x1 = high - golden * (high - low);
-  let x2 = low + golden * (high - low);
-  let f1 = f(x1);
-  let f2 = f(x2);
-  while (high - low > 1e-6 * high) {
-    if (f1 < f2) {
-      low = x1;
-      x1 = x2;
-      f1 = f2;
-      x2 = low + golden * (high - low);
-      f2 = f(x2);
-    } else {
-      high = x2;
-      x2 = x1;
-      f2 = f1;
-      x1 = high - golden * (high - low);
-      f1 = f(x1);
-    }
-  }
-  const peakAt = (low + high) / 2;
+  const refined = goldenMaximum(
+    (pd) => total([pd])[0] as number,
+    grid[Math.max(0, best - 1)] as number,
+    grid[Math.min(grid.length - 1, best + 1)] as number,
+    1e-6,
+  );
   return {
     suctionPressurePa: ps,
     points: grid.map((pd, index) => ({ dischargePressurePa: pd, powerW: power[index] as number })),
-    peak: { dischargePressurePa: peakAt, powerW: f(peakAt) },
-    operating: { dischargePressurePa: operatingDischargePa, powerW: f(operatingDischargePa) },
+    peak: { dischargePressurePa: refined.at, powerW: refined.value },
+    operating: { dischargePressurePa: operatingDischargePa, powerW: total([operatingDischargePa])[0] as number },
     noDeliveryPressurePa: stop,
   };
 }
