@@ -221,6 +221,36 @@ function useGate(context: MaintenanceContext) {
   return { ack, gate, banner, reset: () => setAck(null) };
 }
 
+/** Words to pick any number of, as large toggle chips. */
+function Chips(props: {
+  label: string;
+  options: readonly string[];
+  chosen: string[];
+  onChange: (chosen: string[]) => void;
+}) {
+  return (
+    <>
+      <p class="field__label">{props.label}</p>
+      <div class="chips">
+        {props.options.map((option) => {
+          const on = props.chosen.includes(option);
+          return (
+            <button
+              type="button"
+              key={option}
+              class={`chip ${on ? 'chip--on' : ''}`}
+              aria-pressed={on}
+              onClick={() => props.onChange(on ? props.chosen.filter((x) => x !== option) : [...props.chosen, option])}
+            >
+              {option}
+            </button>
+          );
+        })}
+      </div>
+    </>
+  );
+}
+
 /** A length typed on the numeric keypad with its unit beside it (kept as typed; converted to metres on save). */
 function LengthField(props: {
   label: string;
@@ -284,8 +314,6 @@ function ValveChangeTask({ context, machine }: { context: MaintenanceContext; ma
   const [message, setMessage] = useState<string | null>(null);
   const { ack, gate, banner, reset } = useGate(context);
   const cylinder = machine.cylinders.find((c) => c.id === cylinderId) ?? null;
-  const toggle = (list: string[], item: string) =>
-    list.includes(item) ? list.filter((x) => x !== item) : [...list, item];
 
   const save = async () => {
     if (!ack || !positionId || !reason) return;
@@ -411,34 +439,8 @@ function ValveChangeTask({ context, machine }: { context: MaintenanceContext; ma
                 </button>
               ))}
             </div>
-            <p class="field__label">As found</p>
-            <div class="chips">
-              {AS_FOUND_WORDS.map((word) => (
-                <button
-                  type="button"
-                  key={word}
-                  class={`chip ${asFound.includes(word) ? 'chip--on' : ''}`}
-                  aria-pressed={asFound.includes(word)}
-                  onClick={() => setAsFound(toggle(asFound, word))}
-                >
-                  {word}
-                </button>
-              ))}
-            </div>
-            <p class="field__label">Parts fitted</p>
-            <div class="chips">
-              {PARTS.map((part) => (
-                <button
-                  type="button"
-                  key={part}
-                  class={`chip ${parts.includes(part) ? 'chip--on' : ''}`}
-                  aria-pressed={parts.includes(part)}
-                  onClick={() => setParts(toggle(parts, part))}
-                >
-                  {part}
-                </button>
-              ))}
-            </div>
+            <Chips label="As found" options={AS_FOUND_WORDS} chosen={asFound} onChange={setAsFound} />
+            <Chips label="Parts fitted" options={PARTS} chosen={parts} onChange={setParts} />
             <div class="number">
               <label class="field">
                 <span class="field__label">Cap and cover bolt torque</span>
