@@ -1,5 +1,5 @@
 /** What every check needs to know about the site and this round's readings, looked up once. */
-import { barometricPressure, fromSI, unitInfo } from '../calc';
+import { barometricPressure, CalcError, fromSI, unitInfo } from '../calc';
 import type { CheckPoint, Finding, Machine, Reading, SiteConfig } from '../schema';
 
 export interface History {
@@ -179,4 +179,18 @@ export function makeFinding(
     numbers: clean,
     inputs,
   };
+}
+
+/** A reading a check cannot use becomes an `input` finding that says why, never an exception. */
+export function inputFinding(ctx: RoundContext, subject: Finding['subject'], what: string, error: unknown): Finding {
+  if (!(error instanceof CalcError)) throw error;
+  return makeFinding(
+    ctx,
+    'input',
+    subject,
+    'watch',
+    `Cannot check ${what}: ${error.message}`,
+    {},
+    { code: error.code, field: error.field },
+  );
 }

@@ -1,20 +1,7 @@
 /** Per cylinder: valve cover differentials. Per bearing: temperature against limits, oil, previous round, peers. */
-import { assessBearingTemperature, assessValveCovers, CalcError, type ValveCoverReading } from '../calc';
+import { assessBearingTemperature, assessValveCovers, type ValveCoverReading } from '../calc';
 import type { Finding } from '../schema';
-import { findReading, makeFinding, type RoundContext } from './context';
-
-function inputFinding(ctx: RoundContext, subject: Finding['subject'], what: string, error: unknown): Finding {
-  if (!(error instanceof CalcError)) throw error;
-  return makeFinding(
-    ctx,
-    'input',
-    subject,
-    'watch',
-    `Cannot check ${what}: ${error.message}`,
-    {},
-    { code: error.code, field: error.field },
-  );
-}
+import { findReading, inputFinding, makeFinding, type RoundContext } from './context';
 
 export function valveCoverFindings(ctx: RoundContext): Finding[] {
   const findings: Finding[] = [];

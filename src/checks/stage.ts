@@ -4,7 +4,6 @@
  */
 import {
   assessDischargeTemperature,
-  CalcError,
   dischargeTemperature,
   gasProperties,
   rodLoad,
@@ -12,7 +11,7 @@ import {
   stagePerformance,
 } from '../calc';
 import type { Cylinder, Finding, Machine, Stage } from '../schema';
-import { display, findReading, makeFinding, memoised, type RoundContext } from './context';
+import { display, findReading, inputFinding, makeFinding, memoised, type RoundContext } from './context';
 
 /** The input of calc's stage functions for one cylinder of a stage at one operating state. */
 export function cylinderStageInput(
@@ -82,19 +81,6 @@ function cylinderDischarge(ctx: RoundContext, machine: Machine, cylinder: Cylind
     ctx,
     (point) =>
       point.machineId === machine.id && point.cylinderId === cylinder.id && point.role === 'dischargeTemperature',
-  );
-}
-
-function inputFinding(ctx: RoundContext, subject: Finding['subject'], what: string, error: unknown): Finding {
-  if (!(error instanceof CalcError)) throw error;
-  return makeFinding(
-    ctx,
-    'input',
-    subject,
-    'watch',
-    `Cannot check ${what}: ${error.message}`,
-    {},
-    { code: error.code, field: error.field },
   );
 }
 
